@@ -1,0 +1,3 @@
+"""pqtriage: post-quantum migration risk triage for security teams."""
+
+__version__ = "0.1.0"

@@ -1,0 +1,91 @@
+"""Catalog types: what an algorithm is, as the rest of pqtriage sees it.
+
+A row of the shipped catalog (``pqtriage/data/catalog.yaml``) resolves to an
+:class:`AlgorithmSpec`, much as pyca/cryptography models each algorithm as a
+tiny parameter class. Composite names (TLS cipher suites, hybrid groups) carry
+their parts in ``components``.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Literal
+
+QuantumAttack = Literal["shor", "grover", "none"]
+ClassicalStatus = Literal["broken", "weak", "legacy", "acceptable"]
+ShorProblem = Literal["factoring", "finite-field-dlog", "elliptic-curve-dlog"]
+GroverTarget = Literal["key-search", "preimage", "collision"]
+
+QUANTUM_ATTACKS: tuple[str, ...] = ("shor", "grover", "none")
+CLASSICAL_STATUSES: tuple[str, ...] = ("broken", "weak", "legacy", "acceptable")
+"""From worst to best. broken and weak are not acceptable for protection today."""
+
+
+@dataclass(frozen=True)
+class AlgorithmSpec:
+    """One algorithm with its parameters fixed (RSA-2048, ECDSA P-256, AES-128-GCM ...)."""
+
+    name: str
+    """Canonical display name, for example ``RSA-2048`` or ``ECDH P-256``."""
+    family: str
+    """Algorithm family: RSA, ECDSA, ECDH, EdDSA, FFDH, DSA, AES, ML-KEM, SHA-2 ..."""
+    primitive: str
+    """signature, kem, key-agreement, public-key-encryption, block-cipher, stream-cipher,
+    aead, hash, mac, xof, kdf or cipher-suite."""
+    classical_bits: int | None
+    """Classical security strength in bits (NIST SP 800-57 Part 1 Rev. 5 Table 2;
+    hashes per SP 800-107: collision = half the output, preimage = output)."""
+    classical_status: ClassicalStatus
+    """broken, weak, legacy or acceptable, against today's classical attacks."""
+    quantum_attack: QuantumAttack
+    """shor (polynomial-time break), grover (square-root speedup only) or none known."""
+    source: str
+    """Document(s) the row's facts come from, by title and identifier."""
+    nist_category: int | None = None
+    """NIST PQC security category (1-5) where defined (PQ schemes, AES, hashes)."""
+    shor_problem: ShorProblem | None = None
+    """Hard problem Shor's algorithm solves to break it, for the resource estimator."""
+    problem_bits: int | None = None
+    """Size of that problem: modulus bits, field bits or curve order bits; for
+    Grover targets, key bits or hash output bits."""
+    grover_target: GroverTarget | None = None
+    """What a Grover-type attack searches for: a key, a hash preimage or a collision."""
+    replacements: dict[str, str] = field(default_factory=dict, compare=False, hash=False)
+    """Standardized replacement per purpose (key-establishment, signature, ...)."""
+    components: tuple[Component, ...] = ()
+    """Parts of a composite: cipher-suite roles or hybrid halves."""
+    hybrid: bool = False
+    """True for a hybrid of a classical and a post-quantum scheme (X25519MLKEM768)."""
+    notes: str = ""
+    """Short remark shown with the finding (why it is weak, what limits it)."""
+
+    def replacement_for(self, purpose: str) -> str | None:
+        """Return the standardized replacement for a purpose, or None if none is needed."""
+        return self.replacements.get(purpose) or self.replacements.get("default")
+
+
+@dataclass(frozen=True)
+class Component:
+    """One part of a composite algorithm and the purpose it serves there."""
+
+    purpose: str
+    """Purpose of this part: key-establishment, authentication, encryption, integrity."""
+    spec: AlgorithmSpec
+    """The part itself."""
+
+
+@dataclass(frozen=True)
+class Resolution:
+    """Result of looking a use's algorithm up in the catalog."""
+
+    spec: AlgorithmSpec | None
+    """The resolved algorithm, or None when the catalog cannot assess it."""
+    reason: str | None = None
+    """Why it is unassessed (unknown name, missing key size ...)."""
+    suggestions: tuple[str, ...] = ()
+    """Close known names, for "did you mean"."""
+
+    @property
+    def assessed(self) -> bool:
+        """True when the catalog knows the algorithm with all its parameters."""
+        return self.spec is not None

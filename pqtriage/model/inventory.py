@@ -1,0 +1,166 @@
+"""Inventory domain types: systems and the cryptography each one uses.
+
+Pure data: no file, console or network access. Sources (YAML, CBOM, scans,
+probes) build these; the triage model reads them.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from enum import Enum
+
+
+class Purpose(str, Enum):
+    """What a use of cryptography protects; decides which shelf-life applies."""
+
+    KEY_ESTABLISHMENT = "key-establishment"
+    ENCRYPTION = "encryption"
+    SIGNATURE = "signature"
+    AUTHENTICATION = "authentication"
+    INTEGRITY = "integrity"
+
+
+class Exposure(str, Enum):
+    """How reachable a system's traffic is to an interceptor (harvest now, decrypt later)."""
+
+    INTERNET = "internet"
+    PARTNER = "partner"
+    INTERNAL = "internal"
+    ISOLATED = "isolated"
+
+
+class Criticality(str, Enum):
+    """Business criticality as the inventory owner rates it."""
+
+    CRITICAL = "critical"
+    HIGH = "high"
+    MEDIUM = "medium"
+    LOW = "low"
+
+
+EXPOSURE_ORDER = {Exposure.INTERNET: 0, Exposure.PARTNER: 1, Exposure.INTERNAL: 2, Exposure.ISOLATED: 3}
+"""Ranking weight: lower is more exposed to interception."""
+CRITICALITY_ORDER = {
+    Criticality.CRITICAL: 0,
+    Criticality.HIGH: 1,
+    Criticality.MEDIUM: 2,
+    Criticality.LOW: 3,
+}
+"""Ranking weight: lower is more critical."""
+
+
+@dataclass(frozen=True)
+class SourceRef:
+    """Where an item came from, so every finding can be traced back."""
+
+    file: str
+    """Inventory, CBOM or scanned file path (or ``host:port`` for a probe)."""
+    line: int | None = None
+    """1-based line in that file, when known."""
+    column: int | None = None
+    """1-based column in that file, when known."""
+    detail: str | None = None
+    """Extra locator: PEM block number, bom-ref, known_hosts line, probe target."""
+
+    def __str__(self) -> str:
+        text = self.file
+        if self.line is not None:
+            text += f":{self.line}"
+            if self.column is not None:
+                text += f":{self.column}"
+        if self.detail:
+            text += f" ({self.detail})"
+        return text
+
+
+@dataclass(frozen=True)
+class CryptoUse:
+    """One place where a system uses one algorithm for one purpose."""
+
+    purpose: Purpose
+    """What the algorithm protects here."""
+    algorithm: str
+    """The algorithm as written in the input (any catalog spelling)."""
+    key_size: int | None = None
+    """Key or modulus size in bits, when the algorithm name does not fix it."""
+    curve: str | None = None
+    """Elliptic curve name, when the algorithm name does not fix it."""
+    parameter_set: str | None = None
+    """Parameter set (for example ``768`` for ML-KEM), when not in the name."""
+    trust_years: float | None = None
+    """How long signatures or integrity tags must stay unforgeable (years)."""
+    protocol: str | None = None
+    """Protocol carrying the use (TLS 1.3, SSH, IPsec ...), informational."""
+    notes: str | None = None
+    """Free text from the inventory owner."""
+    source: SourceRef | None = None
+    """Where this use was written or found."""
+    assumed: tuple[str, ...] = ()
+    """Names of fields whose values are documented defaults, not facts from the input."""
+
+
+@dataclass(frozen=True)
+class System:
+    """A system that uses cryptography and has to be migrated as a unit."""
+
+    id: str
+    """Unique identifier within the inventory."""
+    name: str
+    """Human-readable name."""
+    shelf_life_years: float
+    """Mosca's x: how long the system's data must stay confidential."""
+    migration_years: float
+    """Mosca's y: how long moving this system to post-quantum cryptography takes."""
+    uses: tuple[CryptoUse, ...] = ()
+    """Every cryptographic use of the system."""
+    depends_on: tuple[str, ...] = ()
+    """Ids of systems that must migrate first (a PKI, an HSM ...)."""
+    owner: str | None = None
+    """Accountable person or team."""
+    description: str | None = None
+    """Free text."""
+    exposure: Exposure = Exposure.INTERNAL
+    """Reachability of its traffic to an interceptor."""
+    criticality: Criticality = Criticality.MEDIUM
+    """Business criticality."""
+    protocol: str | None = None
+    """Main protocol of the system, informational."""
+    notes: str | None = None
+    """Free text."""
+    policy_category: str | None = None
+    """CNSA 2.0 system category (software-firmware-signing, web-cloud, networking ...)."""
+    effort_person_weeks: float | None = None
+    """Planning input: estimated effort of the migration."""
+    vendor_readiness: str | None = None
+    """Planning input: available, announced or unknown post-quantum support from vendors."""
+    source: SourceRef | None = None
+    """Where this system was written or found."""
+    assumed: tuple[str, ...] = ()
+    """Names of fields whose values are documented defaults, not facts from the input."""
+
+
+@dataclass(frozen=True)
+class Inventory:
+    """A whole inventory: the systems of one organisation."""
+
+    organization: str
+    """Organisation the inventory describes."""
+    systems: tuple[System, ...]
+    """All systems, in input order."""
+    version: int = 1
+    """Inventory format version."""
+    source_path: str | None = None
+    """Path of the file the inventory was read from."""
+    source_sha256: str | None = None
+    """SHA-256 of that file's bytes, for the compliance record."""
+    policies: tuple[str, ...] = ()
+    """Policy timeline identifiers the inventory names as applying to it."""
+    extra: dict[str, object] = field(default_factory=dict, compare=False, hash=False)
+    """Source-specific metadata (for example CBOM serial number), passed through."""
+
+    def system(self, system_id: str) -> System:
+        """Return the system with this id (KeyError if absent)."""
+        for item in self.systems:
+            if item.id == system_id:
+                return item
+        raise KeyError(system_id)
