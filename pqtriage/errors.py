@@ -51,7 +51,7 @@ class PqtriageError(Exception):
         """One line for the user: place, what is wrong, what to do."""
         text = f"{self.place}: {self.message}" if self.place else self.message
         if self.hint:
-            text += f" ({self.hint})"
+            text += f"; {self.hint}"
         # One line, always: inputs may smuggle newlines into messages.
         return " ".join(text.split())
 

@@ -155,6 +155,8 @@ class Inventory:
     """SHA-256 of that file's bytes, for the compliance record."""
     policies: tuple[str, ...] = ()
     """Policy timeline identifiers the inventory names as applying to it."""
+    warnings: tuple[str, ...] = ()
+    """One-line diagnostics that do not stop the run (for example a dependency outside the file)."""
     extra: dict[str, object] = field(default_factory=dict, compare=False, hash=False)
     """Source-specific metadata (for example CBOM serial number), passed through."""
 

@@ -1,0 +1,131 @@
+"""JSON output: a documented, stable structure (see docs/cli.md)."""
+
+from __future__ import annotations
+
+import json
+import math
+from typing import Any
+
+from pqtriage import __version__
+from pqtriage.formats.interface import ResultFormat
+from pqtriage.formats.notes import CAUTIONS, SOURCES, assumptions
+from pqtriage.model.inventory import SourceRef
+from pqtriage.model.verdict import SystemAssessment, TriageResult, UseAssessment
+
+SCHEMA_VERSION = 1
+"""Bumped on any incompatible change of the JSON structure."""
+
+
+def _number(value: float | None, digits: int = 4) -> float | None:
+    if value is None or math.isinf(value) or math.isnan(value):
+        return None
+    return round(value, digits)
+
+
+def _source(ref: SourceRef | None) -> dict[str, Any] | None:
+    if ref is None:
+        return None
+    return {"file": ref.file, "line": ref.line, "column": ref.column, "detail": ref.detail}
+
+
+def use_dict(item: UseAssessment) -> dict[str, Any]:
+    """One use as a JSON-ready dict."""
+    spec = item.deciding or item.spec
+    return {
+        "algorithm": item.use.algorithm,
+        "resolved": item.spec.name if item.spec else None,
+        "deciding_component": item.deciding.name if item.deciding else None,
+        "purpose": item.use.purpose.value,
+        "key_size": item.use.key_size,
+        "curve": item.use.curve,
+        "parameter_set": item.use.parameter_set,
+        "classical_bits": spec.classical_bits if spec else None,
+        "classical_status": spec.classical_status if spec else None,
+        "quantum_attack": spec.quantum_attack if spec else None,
+        "nist_category": spec.nist_category if spec else None,
+        "replacement": item.replacement,
+        "verdict": item.verdict.value,
+        "exposure_probability": _number(item.exposure_probability),
+        "margin_years": _number(item.margin_years, 2),
+        "start_by": item.start_by.isoformat() if item.start_by else None,
+        "x_years": item.x_years,
+        "y_years": item.y_years,
+        "crqc_year": _number(item.crqc_year, 2),
+        "beyond_horizon": item.crqc_year is not None and math.isinf(item.crqc_year),
+        "arrival_shift_years": _number(item.shift_years, 2),
+        "reason": item.reason,
+        "suggestions": list(item.suggestions),
+        "assumptions": list(item.assumptions),
+        "source": _source(item.use.source),
+    }
+
+
+def system_dict(item: SystemAssessment) -> dict[str, Any]:
+    """One ranked system as a JSON-ready dict."""
+    system = item.system
+    return {
+        "id": system.id,
+        "name": system.name,
+        "rank": item.rank,
+        "verdict": item.verdict.value,
+        "exposure_probability": _number(item.exposure_probability),
+        "margin_years": _number(item.margin_years, 2),
+        "start_by": item.start_by.isoformat() if item.start_by else None,
+        "reason": item.reason,
+        "shelf_life_years": system.shelf_life_years,
+        "migration_years": system.migration_years,
+        "criticality": system.criticality.value,
+        "exposure": system.exposure.value,
+        "owner": system.owner,
+        "depends_on": list(system.depends_on),
+        "policy_category": system.policy_category,
+        "assumed": list(system.assumed),
+        "source": _source(system.source),
+        "uses": [use_dict(u) for u in item.uses],
+    }
+
+
+def result_dict(result: TriageResult) -> dict[str, Any]:
+    """The whole result as a JSON-ready dict."""
+    summary = result.summary
+    profile = result.profile
+    return {
+        "schema_version": SCHEMA_VERSION,
+        "tool": {"name": "pqtriage", "version": __version__},
+        "as_of": result.as_of.isoformat(),
+        "inventory": {
+            "file": result.inventory.source_path,
+            "sha256": result.inventory.source_sha256,
+            "organization": result.inventory.organization,
+            "warnings": list(result.inventory.warnings),
+        },
+        "profile": {
+            "name": profile.name,
+            "source": profile.source,
+            "risk_tolerance": profile.risk_tolerance,
+            "crqc_year": profile.crqc_year,
+            "caveat": profile.caveat,
+        },
+        "arrival_model": result.arrival_model,
+        "summary": {
+            "systems": summary.systems,
+            "uses": summary.uses,
+            "counts": {v.value: n for v, n in summary.counts.items()},
+            "use_counts": {v.value: n for v, n in summary.use_counts.items()},
+            "overdue": list(summary.overdue),
+            "earliest_start_by": summary.earliest_start_by.isoformat() if summary.earliest_start_by else None,
+        },
+        "items": [system_dict(i) for i in result.items],
+        "assumptions": assumptions(result),
+        "cautions": list(CAUTIONS),
+        "sources": list(SOURCES),
+    }
+
+
+class JsonFormat(ResultFormat):
+    """Machine-readable triage result."""
+
+    name = "json"
+
+    def render(self, result: TriageResult) -> str:
+        return json.dumps(result_dict(result), indent=2, ensure_ascii=False) + "\n"

@@ -1,0 +1,66 @@
+"""Neutralise text from inputs so every output shows it literally.
+
+Inventory text is untrusted: it may carry terminal escape codes, rich markup,
+Markdown, HTML or bidirectional-override characters. Each output escapes it
+for its own medium; the shared first step makes control characters visible.
+"""
+
+from __future__ import annotations
+
+import re
+import unicodedata
+
+_INVISIBLE = re.compile(
+    "[\x00-\x08\x0b-\x1f\x7f-\x9f\u200b-\u200f\u202a-\u202e\u2060-\u2069\ufeff\n\t\r]"
+)
+_MD_SPECIAL = re.compile(r"([\\`*_{}\[\]()#+!|~>])")
+_MD_LEADING = re.compile(r"^(\s*)([-=:]|\d+[.)])")
+
+
+def _visible(match: re.Match[str]) -> str:
+    char = match.group(0)
+    if char in "\n\t\r":
+        return " "
+    code = ord(char)
+    return f"\\x{code:02x}" if code < 0x100 else f"\\u{code:04x}"
+
+
+def visible(text: object) -> str:
+    """One line of text with control, format and bidi characters shown as escapes."""
+    value = "" if text is None else str(text)
+    value = _INVISIBLE.sub(_visible, value)
+    # Other format characters (category Cf) can reorder or hide text too.
+    return "".join(
+        f"\\u{ord(c):04x}" if unicodedata.category(c) == "Cf" else c for c in value
+    )
+
+
+def markdown_text(text: object) -> str:
+    """Text for a Markdown paragraph or table cell: shown literally on a Git forge."""
+    value = visible(text)
+    value = value.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
+    value = _MD_SPECIAL.sub(r"\\\1", value)
+    # A leading list marker, setext underline or ordered-list number would change the layout.
+    return _MD_LEADING.sub(_escape_leading, value)
+
+
+def _escape_leading(match: re.Match[str]) -> str:
+    marker = match.group(2)
+    if marker[0].isdigit():  # "1." -> "1\." (a backslash before a digit is not an escape)
+        return match.group(1) + marker[:-1] + "\\" + marker[-1]
+    return match.group(1) + "\\" + marker
+
+
+def markdown_code(text: object) -> str:
+    """Text inside inline code: backticks cannot be escaped there, so use entities in HTML code."""
+    value = visible(text).replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
+    value = value.replace("|", "&#124;").replace("`", "&#96;")
+    return f"<code>{value}</code>"
+
+
+def csv_cell(text: object) -> str:
+    """Spreadsheet-safe cell: a leading =, +, -, @, tab or CR cannot start a formula."""
+    value = visible(text)
+    if value and value[0] in "=+-@\t\r":
+        return "'" + value
+    return value

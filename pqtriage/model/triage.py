@@ -1,0 +1,181 @@
+"""Triage: evaluate every use, let each system's weakest use decide, rank the systems.
+
+The orchestrator receives its catalog, profile and arrival model as arguments,
+so tests can hand it fakes. Pure: no file, console or network access.
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+import math
+from typing import Protocol
+
+from pqtriage.catalog.spec import Resolution
+from pqtriage.model.arrival import ArrivalModel
+from pqtriage.model.inventory import CRITICALITY_ORDER, EXPOSURE_ORDER, CryptoUse, Inventory, System
+from pqtriage.model.mosca import evaluate_use
+from pqtriage.model.profile import ThreatProfile
+from pqtriage.model.verdict import (
+    SEVERITY,
+    Summary,
+    SystemAssessment,
+    TriageResult,
+    UseAssessment,
+    Verdict,
+)
+
+
+class Resolver(Protocol):
+    """What triage needs of the catalog."""
+
+    def resolve(
+        self,
+        algorithm: str,
+        *,
+        key_size: int | None = None,
+        curve: str | None = None,
+        parameter_set: str | None = None,
+        purpose: str | None = None,
+    ) -> Resolution:
+        """Look an algorithm up."""
+        ...
+
+
+def _resolve(catalog: Resolver, use: CryptoUse, cache: dict[tuple, Resolution]) -> Resolution:
+    key = (use.algorithm, use.key_size, use.curve, use.parameter_set, use.purpose.value)
+    found = cache.get(key)
+    if found is None:
+        found = catalog.resolve(
+            use.algorithm,
+            key_size=use.key_size,
+            curve=use.curve,
+            parameter_set=use.parameter_set,
+            purpose=use.purpose.value,
+        )
+        cache[key] = found
+    return found
+
+
+def use_sort_key(item: UseAssessment) -> tuple:
+    """Most urgent first: severity, then exposure probability, then smaller margin."""
+    margin = item.margin_years if item.margin_years is not None else math.inf
+    return (-SEVERITY[item.verdict], -(item.exposure_probability or 0.0), margin)
+
+
+def _assess_system(system: System, uses: tuple[UseAssessment, ...]) -> SystemAssessment:
+    if not uses:
+        return SystemAssessment(
+            system=system, uses=(), verdict=Verdict.UNASSESSED, weakest=None,
+            exposure_probability=None, margin_years=None, start_by=None, rank=0,
+            reason="no cryptographic use listed: add its uses to assess it",
+        )
+    weakest = min(uses, key=use_sort_key)
+    dates = [u.start_by for u in uses if u.start_by is not None]
+    return SystemAssessment(
+        system=system, uses=uses, verdict=weakest.verdict, weakest=weakest,
+        exposure_probability=weakest.exposure_probability, margin_years=weakest.margin_years,
+        start_by=min(dates) if dates else None, rank=0, reason=weakest.reason,
+    )
+
+
+def rank_key(item: SystemAssessment) -> tuple:
+    """The ranking: classical breakage first, then exposure probability, then margin,
+    then criticality and exposure to interception; the id breaks remaining ties
+    so the order is total and deterministic."""
+    margin = item.margin_years if item.margin_years is not None else math.inf
+    return (
+        -SEVERITY[item.verdict],
+        -(item.exposure_probability or 0.0),
+        margin,
+        CRITICALITY_ORDER[item.system.criticality],
+        EXPOSURE_ORDER[item.system.exposure],
+        item.system.id,
+    )
+
+
+def _place_reason(item: SystemAssessment, previous: SystemAssessment | None) -> str:
+    """Why this row sits where it does, in one line."""
+    if previous is None or previous.verdict != item.verdict:
+        lead = {
+            Verdict.CLASSICALLY_BROKEN: "broken today",
+            Verdict.EXPOSED: "exposed",
+            Verdict.UNASSESSED: "unassessed",
+            Verdict.WITHIN_MARGIN: "within margin",
+            Verdict.QUANTUM_RESISTANT: "quantum-resistant",
+        }[item.verdict]
+    elif (previous.exposure_probability or 0.0) != (item.exposure_probability or 0.0):
+        lead = "lower exposure probability"
+    elif previous.margin_years != item.margin_years:
+        lead = "more margin"
+    elif previous.system.criticality != item.system.criticality:
+        lead = f"{item.system.criticality.value} criticality"
+    else:
+        lead = f"{item.system.exposure.value} exposure"
+    return f"{lead}: {item.reason}"
+
+
+def summarize(items: tuple[SystemAssessment, ...], as_of: dt.date) -> Summary:
+    """Counts by verdict, overdue systems and the earliest start-by date."""
+    counts = {v: 0 for v in Verdict}
+    use_counts = {v: 0 for v in Verdict}
+    overdue: list[str] = []
+    for item in items:
+        counts[item.verdict] += 1
+        for use in item.uses:
+            use_counts[use.verdict] += 1
+        if item.verdict == Verdict.CLASSICALLY_BROKEN or (item.start_by is not None and item.start_by <= as_of):
+            overdue.append(item.system.id)
+    dates = [i.start_by for i in items if i.start_by is not None]
+    return Summary(
+        counts=counts, use_counts=use_counts, overdue=tuple(overdue),
+        earliest_start_by=min(dates) if dates else None, systems=len(items),
+        uses=sum(len(i.uses) for i in items),
+    )
+
+
+def triage(
+    inventory: Inventory,
+    catalog: Resolver,
+    profile: ThreatProfile,
+    arrival: ArrivalModel,
+    as_of: dt.date,
+) -> TriageResult:
+    """Evaluate and rank every system of the inventory.
+
+    Args:
+        inventory: the systems.
+        catalog: resolves algorithm names.
+        profile: CRQC arrival distribution and risk tolerance.
+        arrival: per-algorithm shift of the arrival.
+        as_of: the date treated as today.
+    """
+    cache: dict[tuple, Resolution] = {}
+    assessed: list[SystemAssessment] = []
+    arrivals: dict[str, float] = {}
+    for system in inventory.systems:
+        uses = tuple(
+            evaluate_use(use, system, _resolve(catalog, use, cache), profile, arrival, as_of)
+            for use in system.uses
+        )
+        for use in uses:
+            spec = use.deciding or use.spec
+            if spec is not None and use.crqc_year is not None:
+                arrivals[spec.name] = use.crqc_year
+        assessed.append(_assess_system(system, uses))
+    ordered = sorted(assessed, key=rank_key)
+    ranked: list[SystemAssessment] = []
+    previous: SystemAssessment | None = None
+    for index, item in enumerate(ordered, start=1):
+        new = SystemAssessment(
+            system=item.system, uses=item.uses, verdict=item.verdict, weakest=item.weakest,
+            exposure_probability=item.exposure_probability, margin_years=item.margin_years,
+            start_by=item.start_by, rank=index, reason=_place_reason(item, previous),
+        )
+        ranked.append(new)
+        previous = item
+    items = tuple(ranked)
+    return TriageResult(
+        inventory=inventory, items=items, summary=summarize(items, as_of), as_of=as_of,
+        profile=profile, arrival_model=arrival.name,
+        arrivals=tuple(sorted(arrivals.items(), key=lambda kv: (kv[1], kv[0]))),
+    )

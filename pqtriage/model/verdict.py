@@ -1,0 +1,138 @@
+"""Triage results: verdicts per use and per system, ranked."""
+
+from __future__ import annotations
+
+import datetime as dt
+from dataclasses import dataclass
+from enum import Enum
+
+from pqtriage.catalog.spec import AlgorithmSpec
+from pqtriage.model.inventory import CryptoUse, Inventory, System
+from pqtriage.model.profile import ThreatProfile
+
+
+class Verdict(str, Enum):
+    """The fixed set of verdicts, from most to least urgent."""
+
+    CLASSICALLY_BROKEN = "classically-broken"
+    EXPOSED = "exposed"
+    UNASSESSED = "unassessed"
+    WITHIN_MARGIN = "within-margin"
+    QUANTUM_RESISTANT = "quantum-resistant"
+
+
+SEVERITY: dict[Verdict, int] = {
+    Verdict.CLASSICALLY_BROKEN: 4,
+    Verdict.EXPOSED: 3,
+    Verdict.UNASSESSED: 2,  # unknown is never shown as safe
+    Verdict.WITHIN_MARGIN: 1,
+    Verdict.QUANTUM_RESISTANT: 0,
+}
+"""Higher is more urgent; --fail-on compares against this order."""
+
+VERDICT_MEANING: dict[Verdict, str] = {
+    Verdict.CLASSICALLY_BROKEN: "broken or not acceptable against classical attacks today: replace now",
+    Verdict.EXPOSED: "Mosca's inequality fails at the profile's risk tolerance: x + y exceeds z",
+    Verdict.UNASSESSED: "pqtriage could not assess this use: treat as exposed until checked",
+    Verdict.WITHIN_MARGIN: "quantum-vulnerable, but migration can still finish before z at the risk tolerance",
+    Verdict.QUANTUM_RESISTANT: "no known quantum attack breaks it within the planning horizon",
+}
+"""One-line meaning of each verdict, for legends, SARIF rules and reports."""
+
+
+@dataclass(frozen=True)
+class UseAssessment:
+    """The Mosca evaluation of one cryptographic use."""
+
+    use: CryptoUse
+    """The use as read from the inventory."""
+    spec: AlgorithmSpec | None
+    """What the catalog resolved it to (None when unassessed)."""
+    deciding: AlgorithmSpec | None
+    """For a composite (cipher suite), the part that decided the verdict."""
+    verdict: Verdict
+    """This use's verdict."""
+    x_years: float
+    """Mosca's x for this use: shelf-life, trust years or zero, by purpose."""
+    y_years: float
+    """Mosca's y: the system's migration time."""
+    exposure_probability: float | None
+    """P(z < as-of + x + y); None when unassessed."""
+    margin_years: float | None
+    """z at the risk tolerance minus (as-of + x + y); negative is overdue; None if not applicable."""
+    start_by: dt.date | None
+    """Latest date to start migrating (z at tolerance - x - y); None if no quantum deadline."""
+    crqc_year: float | None
+    """Decimal year of z at the risk tolerance for this algorithm (inf beyond horizon)."""
+    shift_years: float | None
+    """This algorithm's arrival shift relative to the reference task."""
+    reason: str
+    """One line: why this verdict."""
+    replacement: str | None
+    """Standardized replacement for this purpose, when one is needed."""
+    suggestions: tuple[str, ...] = ()
+    """Close catalog names, for an unknown algorithm."""
+    assumptions: tuple[str, ...] = ()
+    """Assumptions this evaluation made (default trust years, assumed shelf-life ...)."""
+
+
+@dataclass(frozen=True)
+class SystemAssessment:
+    """A system's place in the ranking; its weakest use decides."""
+
+    system: System
+    """The system as read from the inventory."""
+    uses: tuple[UseAssessment, ...]
+    """Every use, in input order."""
+    verdict: Verdict
+    """The weakest use's verdict (unassessed if the system lists no use)."""
+    weakest: UseAssessment | None
+    """The use that decided the verdict."""
+    exposure_probability: float | None
+    """The weakest use's exposure probability."""
+    margin_years: float | None
+    """The weakest use's margin."""
+    start_by: dt.date | None
+    """Earliest start-by date over the system's uses."""
+    rank: int
+    """1 = migrate first."""
+    reason: str
+    """One line: why the system sits at this place."""
+
+
+@dataclass(frozen=True)
+class Summary:
+    """Counts and headlines over a whole triage."""
+
+    counts: dict[Verdict, int]
+    """Systems per verdict (every verdict present, zero included)."""
+    use_counts: dict[Verdict, int]
+    """Uses per verdict."""
+    overdue: tuple[str, ...]
+    """Ids of systems whose start-by date has passed (or that are classically broken)."""
+    earliest_start_by: dt.date | None
+    """The earliest start-by date over all systems."""
+    systems: int
+    """Number of systems."""
+    uses: int
+    """Number of uses."""
+
+
+@dataclass(frozen=True)
+class TriageResult:
+    """The ranked output of one triage run."""
+
+    inventory: Inventory
+    """The input."""
+    items: tuple[SystemAssessment, ...]
+    """Systems, ranked."""
+    summary: Summary
+    """Counts and headlines."""
+    as_of: dt.date
+    """The date treated as today."""
+    profile: ThreatProfile
+    """The threat profile used."""
+    arrival_model: str
+    """Description of how per-algorithm arrivals were set."""
+    arrivals: tuple[tuple[str, float], ...] = ()
+    """(algorithm name, decimal year of z at tolerance) for each distinct algorithm used."""

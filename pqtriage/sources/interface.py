@@ -1,0 +1,38 @@
+"""Inventory sources: anything that turns input bytes into an Inventory."""
+
+from __future__ import annotations
+
+import hashlib
+from abc import ABC, abstractmethod
+from pathlib import Path
+
+from pqtriage.errors import InventoryError, Place
+from pqtriage.model.inventory import Inventory
+
+
+class InventorySource(ABC):
+    """Reads one kind of inventory file (our YAML format, a CycloneDX CBOM ...)."""
+
+    name: str = "inventory"
+    """Short name of the format, for messages."""
+
+    @abstractmethod
+    def accepts(self, text: str) -> bool:
+        """Whether the text looks like this source's format (by content, not file name)."""
+
+    @abstractmethod
+    def parse(self, text: str, path: str, sha256: str | None = None) -> Inventory:
+        """Build an Inventory; raise InventoryError naming file:line:column on bad input."""
+
+
+def read_input(path: str) -> tuple[bytes, str]:
+    """Read an input file's bytes and SHA-256 (the one place inventories touch the disk)."""
+    try:
+        data = Path(path).read_bytes()
+    except FileNotFoundError as exc:
+        raise InventoryError("file not found", place=Place(path), hint="check the path") from exc
+    except IsADirectoryError as exc:
+        raise InventoryError("is a folder, not a file", place=Place(path)) from exc
+    except OSError as exc:
+        raise InventoryError(f"cannot read: {exc.strerror}", place=Place(path)) from exc
+    return data, hashlib.sha256(data).hexdigest()

@@ -1,0 +1,155 @@
+"""Read threat profiles: shipped ones by name, or a user's YAML file."""
+
+from __future__ import annotations
+
+import datetime as dt
+import difflib
+import math
+from importlib import resources
+from pathlib import Path
+
+from pqtriage.errors import Place, ProfileError
+from pqtriage.model.profile import ThreatProfile, decimal_year
+from pqtriage.yamlio import Node, decode_text, load_yaml
+
+DEFAULT_PROFILE = "survey-2025-upper"
+"""The cautious end of the 2025 expert survey: the defender's choice."""
+DEFAULT_RISK_TOLERANCE = 0.10
+"""Used when a profile does not set risk_tolerance."""
+
+_FIELDS = {
+    "name", "description", "source", "caveat", "reference_task", "reference_date", "arrival",
+    "risk_tolerance", "per_algorithm_arrival", "crqc_year", "qubit_doubling_years",
+}
+
+
+def shipped_profiles() -> list[str]:
+    """Names of the profiles shipped with pqtriage."""
+    folder = resources.files("pqtriage") / "data" / "profiles"
+    return sorted(p.name.removesuffix(".yaml") for p in folder.iterdir() if p.name.endswith(".yaml"))
+
+
+def load_profile(name_or_path: str | None) -> ThreatProfile:
+    """Load a shipped profile by name, or a profile file by path (default profile if None)."""
+    name = name_or_path or DEFAULT_PROFILE
+    if name in shipped_profiles():
+        path = resources.files("pqtriage") / "data" / "profiles" / f"{name}.yaml"
+        return parse_profile(path.read_bytes(), f"<shipped profile {name}>")
+    file = Path(name)
+    if not file.exists():
+        close = difflib.get_close_matches(name, shipped_profiles(), n=1)
+        hint = f"did you mean '{close[0]}'?" if close else f"shipped profiles: {', '.join(shipped_profiles())}"
+        raise ProfileError("no such profile file or shipped profile", place=Place(name), hint=hint)
+    try:
+        data = file.read_bytes()
+    except OSError as exc:
+        raise ProfileError(f"cannot read: {exc.strerror}", place=Place(name)) from exc
+    return parse_profile(data, name)
+
+
+def _fail(path: str, node: Node, message: str, hint: str | None = None) -> ProfileError:
+    line = node.key_line or node.line
+    column = node.key_column or node.column
+    return ProfileError(message, place=Place(path, line, column), hint=hint)
+
+
+def _number(path: str, node: Node, label: str, low: float, high: float) -> float:
+    value = node.value
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
+        raise _fail(path, node, f"'{label}' must be a number", "write digits without quotes")
+    if not low <= value <= high:
+        raise _fail(path, node, f"'{label}' is {value}, outside {low:g}..{high:g}")
+    return float(value)
+
+
+def _text(path: str, raw: dict[str, Node], key: str, default: str) -> str:
+    if key not in raw:
+        return default
+    value = raw[key].value
+    if not isinstance(value, str):
+        raise _fail(path, raw[key], f"'{key}' must be text")
+    return " ".join(value.split())
+
+
+def parse_profile(data: bytes, path: str) -> ThreatProfile:
+    """Validate a profile document. A file holding only ``crqc_year: 2035`` is valid."""
+    root = load_yaml(decode_text(data, path, ProfileError), path, ProfileError)
+    if root is None or not isinstance(root.value, dict):
+        raise ProfileError("a profile must be a mapping", place=Place(path, 1, 1),
+                           hint="for a what-if write 'crqc_year: 2035'")
+    raw: dict[str, Node] = root.value
+    for key, node in raw.items():
+        if key not in _FIELDS:
+            close = difflib.get_close_matches(key, sorted(_FIELDS), n=1)
+            raise _fail(path, node, f"unknown field '{key}' in the profile",
+                        f"did you mean '{close[0]}'?" if close else None)
+    tolerance = DEFAULT_RISK_TOLERANCE
+    if "risk_tolerance" in raw:
+        tolerance = _number(path, raw["risk_tolerance"], "risk_tolerance", 0.0001, 0.9999)
+    doubling = None
+    if "qubit_doubling_years" in raw:
+        doubling = _number(path, raw["qubit_doubling_years"], "qubit_doubling_years", 0.1, 50)
+    per_algorithm = False
+    if "per_algorithm_arrival" in raw:
+        if not isinstance(raw["per_algorithm_arrival"].value, bool):
+            raise _fail(path, raw["per_algorithm_arrival"], "'per_algorithm_arrival' must be true or false")
+        per_algorithm = bool(raw["per_algorithm_arrival"].value)
+
+    if "crqc_year" in raw:
+        if "arrival" in raw:
+            raise _fail(path, raw["crqc_year"], "a profile has either 'crqc_year' or 'arrival', not both")
+        node = raw["crqc_year"]
+        if isinstance(node.value, bool) or not isinstance(node.value, int) or not 2000 <= node.value <= 2200:
+            raise _fail(path, node, "'crqc_year' must be a year between 2000 and 2200")
+        year = int(node.value)
+        return ThreatProfile(
+            name=_text(path, raw, "name", f"what-if-crqc-{year}"),
+            description=_text(path, raw, "description",
+                              f"Deterministic what-if: a CRQC breaks Shor-attackable algorithms on 1 January {year}."),
+            source=_text(path, raw, "source", "user what-if (no distribution)"),
+            risk_tolerance=tolerance,
+            reference_task=_text(path, raw, "reference_task", "RSA-2048 factored within about a day"),
+            reference_year=float(year),
+            points=((float(year), 1.0),),
+            crqc_year=year,
+            per_algorithm_arrival=per_algorithm,
+            caveat=_text(path, raw, "caveat", ""),
+            qubit_doubling_years=doubling,
+        )
+
+    if "arrival" not in raw or "reference_date" not in raw:
+        raise ProfileError("a profile needs 'crqc_year', or 'reference_date' and 'arrival'",
+                           place=Place(path, 1, 1), hint="see docs/method.md for the profile format")
+    date_node = raw["reference_date"]
+    try:
+        reference = dt.date.fromisoformat(str(date_node.value))
+    except ValueError as exc:
+        raise _fail(path, date_node, "'reference_date' must be a date YYYY-MM-DD") from exc
+    arrival = raw["arrival"]
+    if not isinstance(arrival.value, list) or not arrival.value:
+        raise _fail(path, arrival, "'arrival' must be a non-empty list of {within_years, probability}")
+    points: list[tuple[float, float]] = []
+    start = decimal_year(reference)
+    last_years, last_p = 0.0, 0.0
+    for item in arrival.value:
+        if not isinstance(item.value, dict) or set(item.value) != {"within_years", "probability"}:
+            raise _fail(path, item, "each arrival entry needs exactly 'within_years' and 'probability'")
+        years = _number(path, item.value["within_years"], "within_years", 0.01, 200)
+        prob = _number(path, item.value["probability"], "probability", 0.0, 1.0)
+        if years <= last_years or prob < last_p:
+            raise _fail(path, item, "arrival entries must increase in years and never decrease in probability")
+        points.append((start + years, prob))
+        last_years, last_p = years, prob
+    return ThreatProfile(
+        name=_text(path, raw, "name", Path(path).stem),
+        description=_text(path, raw, "description", "user-supplied arrival distribution"),
+        source=_text(path, raw, "source", "user-supplied (no source given)"),
+        risk_tolerance=tolerance,
+        reference_task=_text(path, raw, "reference_task", "RSA-2048 factored within about a day"),
+        reference_year=start,
+        points=tuple(points),
+        crqc_year=None,
+        per_algorithm_arrival=per_algorithm,
+        caveat=_text(path, raw, "caveat", ""),
+        qubit_doubling_years=doubling,
+    )

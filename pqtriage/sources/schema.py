@@ -1,0 +1,169 @@
+"""The inventory format, defined once: the validator and the JSON Schema both read this.
+
+Each field is a :class:`FieldSpec`. ``pqtriage schema`` turns these definitions
+into a JSON Schema; the YAML validator checks files against the same objects.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+from pqtriage.model.inventory import Criticality, Exposure, Purpose
+
+MAX_SHELF_LIFE_YEARS = 100.0
+"""Longest shelf-life accepted: beyond a century the number is a typo, not a plan."""
+MAX_MIGRATION_YEARS = 50.0
+"""Longest migration time accepted."""
+MAX_KEY_SIZE = 65536
+"""Largest key size accepted in bits."""
+
+POLICY_CATEGORIES = (
+    "software-firmware-signing",
+    "web-cloud",
+    "networking",
+    "operating-system",
+    "niche",
+    "custom-legacy",
+)
+"""CNSA 2.0 system categories (NSA CNSA 2.0, 2022; FAQ 2024)."""
+VENDOR_READINESS = ("available", "announced", "unknown")
+"""Post-quantum support from the vendor: available now, announced, or unknown."""
+
+
+@dataclass(frozen=True)
+class FieldSpec:
+    """One field of an inventory mapping."""
+
+    name: str
+    """Key as written in YAML."""
+    kind: str
+    """str, number, integer, enum, string-list, field-list, uses or systems."""
+    description: str
+    """What the field means, shown in the JSON Schema and docs."""
+    required: bool = False
+    """Whether the field must be present (after file defaults are applied)."""
+    minimum: float | None = None
+    """Smallest accepted number."""
+    maximum: float | None = None
+    """Largest accepted number."""
+    choices: tuple[str, ...] = ()
+    """Accepted values of an enum."""
+    defaultable: bool = False
+    """Whether the file's ``defaults`` section may supply it."""
+
+
+USE_FIELDS: tuple[FieldSpec, ...] = (
+    FieldSpec("purpose", "enum", "What the algorithm protects here.", required=True,
+              choices=tuple(p.value for p in Purpose)),
+    FieldSpec("algorithm", "str", "Algorithm name in any common spelling (RSA, P-256, AES-128-GCM, "
+              "ML-KEM-768, TLS_ECDHE_RSA_WITH_AES_128_GCM_SHA256 ...).", required=True),
+    FieldSpec("key_size", "integer", "Key or modulus size in bits, when the name does not fix it.",
+              minimum=1, maximum=MAX_KEY_SIZE),
+    FieldSpec("curve", "str", "Elliptic curve, when the name does not fix it (P-256, secp384r1 ...)."),
+    FieldSpec("parameter_set", "str", "Parameter set, when the name does not fix it (768, 65 ...)."),
+    FieldSpec("trust_years", "number", "How long signatures or integrity tags made here must stay "
+              "unforgeable (years).", minimum=0, maximum=MAX_SHELF_LIFE_YEARS),
+    FieldSpec("protocol", "str", "Protocol carrying the use (TLS 1.3, SSH, IPsec ...)."),
+    FieldSpec("notes", "str", "Free text."),
+    FieldSpec("source", "str", "Where the use was found (file and block, host:port)."),
+    FieldSpec("assumed", "field-list", "Fields whose values are defaults, not facts."),
+)
+
+SYSTEM_FIELDS: tuple[FieldSpec, ...] = (
+    FieldSpec("id", "str", "Unique identifier.", required=True),
+    FieldSpec("name", "str", "Human-readable name (defaults to the id)."),
+    FieldSpec("shelf_life_years", "number", "Mosca's x: how long the data must stay confidential.",
+              required=True, minimum=0, maximum=MAX_SHELF_LIFE_YEARS, defaultable=True),
+    FieldSpec("migration_years", "number", "Mosca's y: how long migrating the system takes.",
+              required=True, minimum=0, maximum=MAX_MIGRATION_YEARS, defaultable=True),
+    FieldSpec("depends_on", "string-list", "Ids of systems that must migrate first."),
+    FieldSpec("owner", "str", "Accountable person or team.", defaultable=True),
+    FieldSpec("description", "str", "Free text."),
+    FieldSpec("exposure", "enum", "Reachability of its traffic to an interceptor.",
+              choices=tuple(e.value for e in Exposure), defaultable=True),
+    FieldSpec("criticality", "enum", "Business criticality.",
+              choices=tuple(c.value for c in Criticality), defaultable=True),
+    FieldSpec("protocol", "str", "Main protocol, informational."),
+    FieldSpec("notes", "str", "Free text."),
+    FieldSpec("policy_category", "enum", "CNSA 2.0 system category.", choices=POLICY_CATEGORIES,
+              defaultable=True),
+    FieldSpec("effort_person_weeks", "number", "Planning: estimated effort of the migration.",
+              minimum=0, maximum=100_000, defaultable=True),
+    FieldSpec("vendor_readiness", "enum", "Planning: post-quantum support from the vendor.",
+              choices=VENDOR_READINESS, defaultable=True),
+    FieldSpec("source", "str", "Where the system was found (folder, host)."),
+    FieldSpec("assumed", "field-list", "Fields whose values are defaults, not facts."),
+    FieldSpec("uses", "uses", "Every cryptographic use of the system.", required=True),
+)
+
+TOP_FIELDS: tuple[FieldSpec, ...] = (
+    FieldSpec("version", "integer", "Format version; must be 1.", required=True, minimum=1, maximum=1),
+    FieldSpec("organization", "str", "Organisation the inventory describes.", required=True),
+    FieldSpec("policies", "string-list", "Policy timelines that apply (nist-ir-8547, cnsa2 ...)."),
+    FieldSpec("defaults", "defaults", "Values applied to every system that does not set them."),
+    FieldSpec("systems", "systems", "The systems.", required=True),
+)
+
+DEFAULTABLE: tuple[FieldSpec, ...] = tuple(f for f in SYSTEM_FIELDS if f.defaultable)
+
+
+def _field_schema(spec: FieldSpec) -> dict[str, Any]:
+    schema: dict[str, Any]
+    if spec.kind == "str":
+        schema = {"type": "string"}
+    elif spec.kind in ("number", "integer"):
+        schema = {"type": spec.kind}
+        if spec.minimum is not None:
+            schema["minimum"] = spec.minimum
+        if spec.maximum is not None:
+            schema["maximum"] = spec.maximum
+    elif spec.kind == "enum":
+        schema = {"type": "string", "enum": list(spec.choices)}
+    elif spec.kind == "string-list":
+        schema = {"type": "array", "items": {"type": "string"}}
+    elif spec.kind == "field-list":
+        schema = {"type": "array", "items": {"type": "string"}}
+    elif spec.kind == "uses":
+        schema = {"type": "array", "items": {"$ref": "#/$defs/use"}}
+    elif spec.kind == "systems":
+        schema = {"type": "array", "items": {"$ref": "#/$defs/system"}}
+    elif spec.kind == "defaults":
+        schema = {"$ref": "#/$defs/defaults"}
+    else:  # pragma: no cover - guarded by test_every_kind_has_a_schema
+        raise ValueError(spec.kind)
+    schema["description"] = spec.description
+    return schema
+
+
+def _object(fields: tuple[FieldSpec, ...], required: bool = True) -> dict[str, Any]:
+    obj: dict[str, Any] = {
+        "type": "object",
+        "additionalProperties": False,
+        "properties": {f.name: _field_schema(f) for f in fields},
+    }
+    names = [f.name for f in fields if f.required and required]
+    if names:
+        obj["required"] = names
+    return obj
+
+
+def json_schema() -> dict[str, Any]:
+    """Return the JSON Schema (draft 2020-12) of the inventory format."""
+    system = _object(SYSTEM_FIELDS)
+    # Defaultable fields may come from the file's defaults section instead.
+    system["required"] = [f.name for f in SYSTEM_FIELDS if f.required and not f.defaultable]
+    schema = _object(TOP_FIELDS)
+    schema.update(
+        {
+            "$schema": "https://json-schema.org/draft/2020-12/schema",
+            "$id": "https://pqtriage.invalid/schema/inventory-v1.json",
+            "title": "pqtriage inventory, version 1",
+        }
+    )
+    schema["$defs"] = {
+        "use": _object(USE_FIELDS),
+        "system": system,
+        "defaults": _object(DEFAULTABLE, required=False),
+    }
+    return schema
