@@ -133,10 +133,12 @@ class _Reader:
         )
 
     def system(self, node: Node, index: int, defaults: dict[str, Any]) -> System:
-        raw = self.mapping(node, SYSTEM_FIELDS, f"system #{index + 1}")
         label = f"system #{index + 1}"
-        if "id" in raw and isinstance(raw["id"].value, (str, int)) and not isinstance(raw["id"].value, bool):
-            label = f"system '{raw['id'].value}'"
+        if isinstance(node.value, dict) and "id" in node.value:
+            ident = node.value["id"].value
+            if isinstance(ident, (str, int)) and not isinstance(ident, bool):
+                label = f"system '{str(ident)[:80]}'"
+        raw = self.mapping(node, SYSTEM_FIELDS, label)
         values = self.fields(node, SYSTEM_FIELDS, label, defaults)
         if "uses" not in raw:
             raise self.fail(node, f"{label} has no 'uses'", "list the cryptography it uses, or 'uses: []'")
