@@ -75,7 +75,9 @@ class ResourceArrivalModel:
         data: method data (the shipped methods.yaml by default).
         """
         self.params = params or ThreatParameters()
-        self.doubling_years = doubling_years if doubling_years is not None else self.params.doubling_years
+        self.doubling_years = (
+            doubling_years if doubling_years is not None else self.params.doubling_years
+        )
         if not (math.isfinite(self.doubling_years) and self.doubling_years > 0):
             from pqtriage.errors import ProfileError
 
@@ -114,8 +116,12 @@ class ResourceArrivalModel:
         depth = g.serial_depth_log2 - machines / 2
         tiles = block_tiles(g.oracle_qubits, self.data.surface_code)
         cycles_log2 = depth - math.log2(self.params.logical_gate_rate * self.params.cycle_seconds)
-        distance = distance_for_volume(math.log2(tiles) + cycles_log2, self.params, self.data.surface_code)
-        per_tile = qubits_per_tile(distance or self.data.surface_code.max_distance, self.data.surface_code)
+        distance = distance_for_volume(
+            math.log2(tiles) + cycles_log2, self.params, self.data.surface_code
+        )
+        per_tile = qubits_per_tile(
+            distance or self.data.surface_code.max_distance, self.data.surface_code
+        )
         qubits_log2 = machines + math.log2(tiles * per_tile)
         basis = (
             f"2^{machines:.1f} Grover machines of {g.oracle_qubits:,} logical qubits (distance "
@@ -129,16 +135,25 @@ class ResourceArrivalModel:
         ref = self.reference_physical_qubits
         median = self.params.reference_median_year
 
-        def row(basis: str, log2q: float | None, shift: float, computed: float | None, text: str) -> ArrivalRow:
+        def row(
+            basis: str, log2q: float | None, shift: float, computed: float | None, text: str
+        ) -> ArrivalRow:
             year = None if median is None or math.isinf(shift) else median + shift
-            return ArrivalRow(spec.name, spec.quantum_attack, basis, log2q, ref, shift, computed, year, text)
+            return ArrivalRow(
+                spec.name, spec.quantum_attack, basis, log2q, ref, shift, computed, year, text
+            )
 
         if spec.quantum_attack == "none":
             return row("no known quantum attack", None, math.inf, None, "no known quantum attack")
         if spec.quantum_attack == "shor":
             if spec.shor_problem is None or spec.problem_bits is None:
-                return row("no problem size", None, 0.0, None,
-                           "no problem size known: falls with the reference task (cautious)")
+                return row(
+                    "no problem size",
+                    None,
+                    0.0,
+                    None,
+                    "no problem size known: falls with the reference task (cautious)",
+                )
             qubits = self._shor_qubits(spec.shor_problem, spec.problem_bits, spec.classical_bits)
             method = self._method_id(spec.shor_problem)
             basis = f"Shor ({spec.shor_problem}, {method})"
@@ -147,12 +162,22 @@ class ResourceArrivalModel:
             log2q = math.log2(qubits)
         else:
             if spec.grover_target is None or spec.problem_bits is None:
-                return row("no search size", None, math.inf, None,
-                           "no key or output size known: not assessed, treated as beyond horizon")
+                return row(
+                    "no search size",
+                    None,
+                    math.inf,
+                    None,
+                    "no key or output size known: not assessed, treated as beyond horizon",
+                )
             if spec.grover_target == "collision":
-                return row("classical collision bound", None, math.inf, None,
-                           f"collision search costs 2^{spec.problem_bits / 2:g} classically; "
-                           "no quantum attack is cheaper")
+                return row(
+                    "classical collision bound",
+                    None,
+                    math.inf,
+                    None,
+                    f"collision search costs 2^{spec.problem_bits / 2:g} classically; "
+                    "no quantum attack is cheaper",
+                )
             log2q, basis = self._grover_qubits_log2(spec)
         computed = self.doubling_years * (log2q - math.log2(ref))
         beyond = computed > self.params.planning_horizon_years

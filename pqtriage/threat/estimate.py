@@ -103,22 +103,36 @@ def estimate(
     params = params or ThreatParameters()
     data = data or load_method_data()
     arrival = arrival_model.explain(spec) if arrival_model is not None else None
-    base = dict(
-        algorithm=spec.name,
-        attack=spec.quantum_attack,
-        classical_security_bits=spec.classical_bits,
-        problem_bits=spec.problem_bits,
-        arrival=arrival,
-        nist_category=spec.nist_category,
-    )
+    base: dict[str, object] = {
+        "algorithm": spec.name,
+        "attack": spec.quantum_attack,
+        "classical_security_bits": spec.classical_bits,
+        "problem_bits": spec.problem_bits,
+        "arrival": arrival,
+        "nist_category": spec.nist_category,
+    }
     empty: dict[str, object] = {
         k: None
         for k in (
-            "method", "method_title", "problem", "logical_qubits", "toffoli_count",
-            "measurement_depth", "code_distance", "physical_qubits", "factories",
-            "runtime_hours", "runtime_limited_by", "failure_probability",
-            "grover_iterations_log2", "total_gates_log2", "maxdepth_log2", "machines_log2",
-            "quantum_security_bits", "wallclock_years_log2", "break_even_oracle_operations",
+            "method",
+            "method_title",
+            "problem",
+            "logical_qubits",
+            "toffoli_count",
+            "measurement_depth",
+            "code_distance",
+            "physical_qubits",
+            "factories",
+            "runtime_hours",
+            "runtime_limited_by",
+            "failure_probability",
+            "grover_iterations_log2",
+            "total_gates_log2",
+            "maxdepth_log2",
+            "machines_log2",
+            "quantum_security_bits",
+            "wallclock_years_log2",
+            "break_even_oracle_operations",
         )
     }
     if spec.quantum_attack == "shor" and spec.shor_problem and spec.problem_bits:
@@ -128,7 +142,9 @@ def estimate(
             if known is None or spec.shor_problem not in known.families:
                 chosen = None
         construction = select_method(spec.shor_problem, chosen, data)
-        logical = logical_resources(construction, spec.shor_problem, spec.problem_bits, spec.classical_bits)
+        logical = logical_resources(
+            construction, spec.shor_problem, spec.problem_bits, spec.classical_bits
+        )
         physical = physical_resources(logical, params, data.surface_code)
         default = spec.shor_problem in construction.default_for
         return _build(
@@ -169,7 +185,9 @@ def estimate(
             quantum_security_bits=g.quantum_security_bits,
             nist_category=g.nist_category,
             wallclock_years_log2=g.wallclock_years_log2,
-            break_even_oracle_operations=None if collision else break_even_oracle_operations(params),
+            break_even_oracle_operations=None
+            if collision
+            else break_even_oracle_operations(params),
             working=g.working,
         )
     reason = {

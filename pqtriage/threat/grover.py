@@ -68,7 +68,9 @@ def nearest_oracle(bits: int, data: MethodData | None = None) -> AesOracle:
     return min(data.aes_oracles, key=lambda o: (abs(o.key_bits - bits), -o.key_bits))
 
 
-def nist_quantum_gates_log2(bits: int, maxdepth_log2: float, year: int, data: MethodData | None = None) -> float:
+def nist_quantum_gates_log2(
+    bits: int, maxdepth_log2: float, year: int, data: MethodData | None = None
+) -> float:
     """log2 of NIST's quantum gate figure 2^G / MAXDEPTH for a k-bit key search."""
     data = data or load_method_data()
     figures = data.figures(year)
@@ -110,11 +112,25 @@ def grover_resources(
     if target == "collision":
         half = bits / 2
         return GroverResources(
-            target, bits, None, None, None, None, None, half, half, _collision_category(bits),
-            None, None,
-            (f"collision on {bits} bits: classical parallel collision search, 2^{half:g} "
-             f"operations, is the bound; no quantum attack beats it in cost (SHARCS 2009)",
-             f"NIST category {_collision_category(bits)} (NIST IR 8547 ipd, Table 7)"),
+            target,
+            bits,
+            None,
+            None,
+            None,
+            None,
+            None,
+            half,
+            half,
+            _collision_category(bits),
+            None,
+            None,
+            (
+                (
+                    f"collision on {bits} bits: classical parallel collision search, 2^{half:g} "
+                    "operations, is the bound; no quantum attack beats it in cost (SHARCS 2009)"
+                ),
+                f"NIST category {_collision_category(bits)} (NIST IR 8547 ipd, Table 7)",
+            ),
         )
     figures = data.figures(params.nist_figures_year)
     assert figures is not None  # ThreatParameters validates the year
@@ -128,24 +144,32 @@ def grover_resources(
     machines = max(0.0, 2 * (serial_depth - params.maxdepth_log2))
     classical = figures.classical_gates_log2[oracle.key_bits] + (bits - oracle.key_bits)
     per_machine_depth = serial_depth - min(math.log2(params.machines), 2 * serial_depth) / 2
-    wallclock = per_machine_depth - math.log2(params.logical_gate_rate) - math.log2(SECONDS_PER_YEAR)
+    wallclock = (
+        per_machine_depth - math.log2(params.logical_gate_rate) - math.log2(SECONDS_PER_YEAR)
+    )
     category = _key_category(bits)
-    scope = "AES" if bits == oracle.key_bits and target == "key-search" else f"AES-{oracle.key_bits}-like oracle (assumption)"
+    scope = (
+        "AES"
+        if bits == oracle.key_bits and target == "key-search"
+        else f"AES-{oracle.key_bits}-like oracle (assumption)"
+    )
     working = [
         f"Grover iterations (pi/4) sqrt(2^{bits}) = 2^{iterations:.2f} (Phys. Rev. A 60, 2746)",
         f"serial depth 2^{serial_depth:.1f} ({scope}; {oracle.source})",
-        f"NIST {figures.year}: 2^{g:g} / MAXDEPTH 2^{params.maxdepth_log2:g} = 2^{nist_gates:g} "
-        f"gates ({figures.source})",
+        (
+            f"NIST {figures.year}: 2^{g:g} / MAXDEPTH 2^{params.maxdepth_log2:g} = "
+            f"2^{nist_gates:g} gates ({figures.source})"
+        ),
     ]
     if params.maxdepth_log2 >= serial_depth:
-        working.append(
-            f"MAXDEPTH exceeds the serial depth: one machine, 2^{total:.1f} gates"
-        )
+        working.append(f"MAXDEPTH exceeds the serial depth: one machine, 2^{total:.1f} gates")
     else:
         working.append(f"parallel split: 2^{machines:.1f} machines to stay under MAXDEPTH")
     working += [
-        f"on {params.machines:g} machines at {params.logical_gate_rate:g} gates/s: "
-        f"2^{wallclock:.1f} years",
+        (
+            f"on {params.machines:g} machines at {params.logical_gate_rate:g} gates/s: "
+            f"2^{wallclock:.1f} years"
+        ),
         f"classical search 2^{classical:g} gates; NIST category {category}",
     ]
     return GroverResources(

@@ -258,6 +258,8 @@ def parse_method_data(document: Any) -> MethodData:
         if count != 1:
             raise _fail("shor_methods", f"{count} defaults for {family}; exactly one is needed")
     sc = document.get("surface_code")
+    if not isinstance(sc, dict):
+        raise _fail("surface_code", "must be a mapping")
     try:
         surface = SurfaceCodeConstants(
             source=" ".join(str(sc["source"]).split()),
@@ -278,7 +280,9 @@ def parse_method_data(document: Any) -> MethodData:
                 quantum_gates_times_depth_log2={
                     int(k): float(v) for k, v in f["quantum_gates_times_depth_log2"].items()
                 },
-                classical_gates_log2={int(k): float(v) for k, v in f["classical_gates_log2"].items()},
+                classical_gates_log2={
+                    int(k): float(v) for k, v in f["classical_gates_log2"].items()
+                },
             )
             for f in grover["figures"]
         )
@@ -304,7 +308,7 @@ def load_method_data() -> MethodData:
     """Load and validate the shipped methods.yaml (once per process)."""
     text = resources.files("pqtriage").joinpath("data", DATA_FILE).read_text(encoding="utf-8")
     try:
-        document = yaml.load(text, Loader=_Loader)  # noqa: S506 - a safe loader
+        document = yaml.load(text, Loader=_Loader)  # a safe loader, never yaml.Loader
     except yaml.YAMLError as exc:
         raise _fail("file", f"not valid YAML ({exc})") from exc
     return parse_method_data(document)

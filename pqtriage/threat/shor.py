@@ -32,7 +32,9 @@ class LogicalResources:
     """Each step of the computation, with its source."""
 
 
-def select_method(problem: str, method_id: str | None, data: MethodData | None = None) -> ShorMethod:
+def select_method(
+    problem: str, method_id: str | None, data: MethodData | None = None
+) -> ShorMethod:
     """Return the construction for ``problem``: ``method_id`` when given, else the default.
 
     Raises:

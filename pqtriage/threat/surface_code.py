@@ -46,7 +46,9 @@ class PhysicalResources:
     """Each step of the computation, with its source."""
 
 
-def logical_error_rate(distance: int, params: ThreatParameters, constants: SurfaceCodeConstants) -> float:
+def logical_error_rate(
+    distance: int, params: ThreatParameters, constants: SurfaceCodeConstants
+) -> float:
     """p_L = A (p/p_th)^((d+1)/2) per tile per cycle (arXiv:1905.09749; Phys. Rev. A 86, 032324)."""
     ratio = params.physical_error_rate / params.threshold
     return constants.logical_error_prefactor * ratio ** ((distance + 1) / 2)
@@ -54,7 +56,9 @@ def logical_error_rate(distance: int, params: ThreatParameters, constants: Surfa
 
 def qubits_per_tile(distance: int, constants: SurfaceCodeConstants) -> float:
     """2 (d+1)^2 physical qubits per distance-d tile (arXiv:1905.09749)."""
-    return constants.qubits_per_tile_coefficient * (distance + constants.qubits_per_tile_offset) ** 2
+    return (
+        constants.qubits_per_tile_coefficient * (distance + constants.qubits_per_tile_offset) ** 2
+    )
 
 
 def block_tiles(logical_qubits: float, constants: SurfaceCodeConstants) -> float:
@@ -85,9 +89,20 @@ def physical_resources(
             break
     else:
         return PhysicalResources(
-            None, None, tiles, None, None, None, None, None,
-            (f"no odd code distance up to {constants.max_distance} keeps the run's failure "
-             f"under {params.target_failure:g}",),
+            None,
+            None,
+            tiles,
+            None,
+            None,
+            None,
+            None,
+            None,
+            (
+                (
+                    f"no odd code distance up to {constants.max_distance} keeps the run's failure "
+                    f"under {params.target_failure:g}"
+                ),
+            ),
         )
     per_tile = qubits_per_tile(distance, constants)
     factory_tiles = factories * constants.factory_tiles
@@ -95,13 +110,18 @@ def physical_resources(
     limited_by = "factory" if factory_seconds > reaction_seconds else "reaction"
     working = (
         f"routed block {tiles:,.0f} tiles = 2 x {logical.logical_qubits:,.0f} + 4 (arXiv:1808.02892)",
-        f"code distance {distance}: p_L = 0.1 (p/p_th)^((d+1)/2) = {p_l:.2g} per tile per cycle; "
-        f"run failure {failure:.3f} <= target {params.target_failure:g} (arXiv:1905.09749)",
+        (
+            f"code distance {distance}: p_L = 0.1 (p/p_th)^((d+1)/2) = {p_l:.2g} per tile per "
+            f"cycle; run failure {failure:.3f} <= target {params.target_failure:g} (arXiv:1905.09749)"
+        ),
         f"{per_tile:,.0f} physical qubits per tile = 2 (d+1)^2 (arXiv:1905.09749)",
         f"{factories} CCZ factories of 72 tiles, one CCZ per 5.5 d cycles (arXiv:1812.01238)",
         f"physical qubits ({tiles:,.0f} + {factory_tiles:,.0f}) x {per_tile:,.0f} = {physical:.3g}",
-        f"runtime {runtime / 3600:.3g} h, {limited_by}-limited: depth {logical.measurement_depth:.3g}"
-        f" x {layer_seconds * 1e6:g} us reaction; factories {factory_seconds / 3600:.3g} h",
+        (
+            f"runtime {runtime / 3600:.3g} h, {limited_by}-limited: depth "
+            f"{logical.measurement_depth:.3g} x {layer_seconds * 1e6:g} us reaction; "
+            f"factories {factory_seconds / 3600:.3g} h"
+        ),
     )
     return PhysicalResources(
         code_distance=distance,
