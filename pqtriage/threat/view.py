@@ -121,9 +121,12 @@ def working_view(estimate: Estimate) -> RenderableType:
 
 def side_by_side(estimates: Sequence[Estimate]) -> Table:
     """A table of what falls when: one row per estimate, ordered by arrival shift."""
-    table = Table(box=box.SIMPLE, title="What falls when (against RSA-2048 in about a day)")
+    table = Table(
+        box=box.SIMPLE, title="What falls when (shift against RSA-2048 factored in about a day)"
+    )
     table.add_column("algorithm", no_wrap=True)
-    for column in ("attack", "method", "physical qubits", "runtime", "quantum bits", "category"):
+    # qubits: physical qubits of one Shor-type run; quantum: bits of security against Grover.
+    for column in ("attack", "method", "qubits", "runtime", "quantum", "category"):
         table.add_column(column)
     table.add_column("shift", justify="right")
     table.add_column("falls")

@@ -15,7 +15,9 @@ from pqtriage.threat.parameters import ThreatParameters
 from tests.threat.helpers import cipher, curve, ffdh, hash_, rsa
 
 DEFAULT = ResourceArrivalModel()
-GE2019 = ResourceArrivalModel(methods={"factoring": "1905.09749", "finite-field-dlog": "1905.09749"})
+GE2019 = ResourceArrivalModel(
+    methods={"factoring": "1905.09749", "finite-field-dlog": "1905.09749"}
+)
 
 
 def test_is_an_arrival_model() -> None:
@@ -34,13 +36,17 @@ def test_shift_is_doubling_years_times_log2_of_the_requirement_ratio() -> None:
     expected = 2.0 * (row.physical_qubits_log2 - math.log2(row.reference_physical_qubits))
     assert row.shift_years == pytest.approx(expected)
     slower = ResourceArrivalModel(doubling_years=4.0)
-    assert slower.shift_years(rsa(4096, 152)) == pytest.approx(2 * DEFAULT.shift_years(rsa(4096, 152)))
+    assert slower.shift_years(rsa(4096, 152)) == pytest.approx(
+        2 * DEFAULT.shift_years(rsa(4096, 152))
+    )
 
 
 def test_fewer_resources_arrive_earlier() -> None:
     assert DEFAULT.shift_years(rsa(1024, 80)) < 0 < DEFAULT.shift_years(rsa(3072, 128))
     # Under the 2019 constructions a 256-bit curve needs far fewer qubits than RSA-2048.
-    ecc = ResourceArrivalModel(methods={"factoring": "1905.09749", "elliptic-curve-dlog": "1706.06752"})
+    ecc = ResourceArrivalModel(
+        methods={"factoring": "1905.09749", "elliptic-curve-dlog": "1706.06752"}
+    )
     assert ecc.shift_years(curve("P-256", 256)) < 0
 
 
@@ -60,7 +66,9 @@ def test_collisions_and_no_attack_never_fall() -> None:
     assert math.isinf(DEFAULT.shift_years(hash_("SHA-256", 256, "collision")))
     from pqtriage.catalog.spec import AlgorithmSpec
 
-    pq = AlgorithmSpec("ML-KEM-768", "ML-KEM", "kem", 192, "acceptable", "none", "FIPS 203", nist_category=3)
+    pq = AlgorithmSpec(
+        "ML-KEM-768", "ML-KEM", "kem", 192, "acceptable", "none", "FIPS 203", nist_category=3
+    )
     assert math.isinf(DEFAULT.shift_years(pq))
 
 
@@ -95,8 +103,16 @@ def test_larger_keys_never_arrive_earlier(family: str, method: str, sizes: list[
     small, large = sizes
     if family == "elliptic-curve-dlog":
         small, large = small // 16 + 150, large // 16 + 150  # 160..662-bit curves
-    model = DEFAULT if method == "default" else ResourceArrivalModel(
-        methods={"factoring": "1905.09749", "finite-field-dlog": "1905.09749", "elliptic-curve-dlog": "1706.06752"}
+    model = (
+        DEFAULT
+        if method == "default"
+        else ResourceArrivalModel(
+            methods={
+                "factoring": "1905.09749",
+                "finite-field-dlog": "1905.09749",
+                "elliptic-curve-dlog": "1706.06752",
+            }
+        )
     )
     a, b = _family_specs(family, small, large)
     assert model.shift_years(a) <= model.shift_years(b)  # type: ignore[arg-type]

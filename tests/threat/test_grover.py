@@ -17,10 +17,21 @@ from tests.threat import published as P
 def test_nist_2016_and_2022_gate_costs(bits: int, maxdepth: int) -> None:
     # NIST PQC call (2016) 4.A.5 and call for additional signatures (2022) 4.B.3 (V2):
     # quantum gates 2^G / MAXDEPTH for AES-128/192/256.
-    assert grover.nist_quantum_gates_log2(bits, maxdepth, 2016) == P.NIST_2016_GATES_TIMES_DEPTH[bits] - maxdepth
-    assert grover.nist_quantum_gates_log2(bits, maxdepth, 2022) == P.NIST_2022_GATES_TIMES_DEPTH[bits] - maxdepth
-    for year, table in ((2016, P.NIST_2016_GATES_TIMES_DEPTH), (2022, P.NIST_2022_GATES_TIMES_DEPTH)):
-        r = grover.grover_resources("key-search", bits, ThreatParameters(maxdepth_log2=maxdepth, nist_figures_year=year))
+    assert (
+        grover.nist_quantum_gates_log2(bits, maxdepth, 2016)
+        == P.NIST_2016_GATES_TIMES_DEPTH[bits] - maxdepth
+    )
+    assert (
+        grover.nist_quantum_gates_log2(bits, maxdepth, 2022)
+        == P.NIST_2022_GATES_TIMES_DEPTH[bits] - maxdepth
+    )
+    for year, table in (
+        (2016, P.NIST_2016_GATES_TIMES_DEPTH),
+        (2022, P.NIST_2022_GATES_TIMES_DEPTH),
+    ):
+        r = grover.grover_resources(
+            "key-search", bits, ThreatParameters(maxdepth_log2=maxdepth, nist_figures_year=year)
+        )
         assert r.nist_formula_gates_log2 == table[bits] - maxdepth
         assert r.classical_gates_log2 == P.NIST_CLASSICAL_GATES[bits]
         assert r.total_gates_log2 is not None and r.serial_depth_log2 is not None
@@ -44,7 +55,9 @@ def test_depth_beyond_serial_needs_no_parallel_machines() -> None:
 def test_grover_iterations(bits: int) -> None:
     # (pi/4) sqrt(N) oracle calls ("Grover's quantum searching algorithm is optimal",
     # Phys. Rev. A 60, 2746, 1999).
-    assert 2 ** grover.grover_iterations_log2(bits) == pytest.approx(math.pi / 4 * math.sqrt(2.0**bits))
+    assert 2 ** grover.grover_iterations_log2(bits) == pytest.approx(
+        math.pi / 4 * math.sqrt(2.0**bits)
+    )
 
 
 def test_grover_iterations_against_a_simulated_search() -> None:
@@ -69,7 +82,10 @@ def test_hash_categories_of_ir_8547_table_7(name: str) -> None:
 @pytest.mark.parametrize("bits", [128, 192, 256])
 def test_aes_categories(bits: int) -> None:
     # NIST PQC call (2016) 4.A.5: categories 1, 3, 5 are AES-128, -192, -256 key search (V).
-    assert grover.grover_resources("key-search", bits, ThreatParameters()).nist_category == P.AES_CATEGORIES[bits]
+    assert (
+        grover.grover_resources("key-search", bits, ThreatParameters()).nist_category
+        == P.AES_CATEGORIES[bits]
+    )
 
 
 def test_collision_bound_is_classical_parallel_search() -> None:

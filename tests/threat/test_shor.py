@@ -12,7 +12,9 @@ from pqtriage.threat.methods import load_method_data
 from tests.threat import published as P
 
 
-def _logical(method_id: str, problem: str, bits: int, strength: int | None = None) -> shor.LogicalResources:
+def _logical(
+    method_id: str, problem: str, bits: int, strength: int | None = None
+) -> shor.LogicalResources:
     return shor.logical_resources(shor.select_method(problem, method_id), problem, bits, strength)
 
 
@@ -76,7 +78,11 @@ def test_defaults_are_the_most_recent_credible_construction_per_family() -> None
     data = load_method_data()
     for family in ("factoring", "finite-field-dlog", "elliptic-curve-dlog"):
         default = data.default_method(family)
-        newer = [m for m in data.shor_methods if family in m.families and m.credible and m.year > default.year]
+        newer = [
+            m
+            for m in data.shor_methods
+            if family in m.families and m.credible and m.year > default.year
+        ]
         assert newer == [], family
     assert data.default_method("factoring").id == "2505.15917"
     assert data.default_method("elliptic-curve-dlog").id == "2306.08585"

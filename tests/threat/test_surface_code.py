@@ -19,11 +19,16 @@ PUBLISHED = ThreatParameters(physical_error_rate=1e-3, cycle_us=1.0, reaction_us
 
 
 def _physical(
-    n: int, params: ThreatParameters = PUBLISHED, problem: str = "factoring", method: str = "1905.09749"
+    n: int,
+    params: ThreatParameters = PUBLISHED,
+    problem: str = "factoring",
+    method: str = "1905.09749",
 ) -> surface_code.PhysicalResources:
     construction = shor.select_method(problem, method)
     strength = 112 if problem == "finite-field-dlog" else None
-    return surface_code.physical_resources(shor.logical_resources(construction, problem, n, strength), params)
+    return surface_code.physical_resources(
+        shor.logical_resources(construction, problem, n, strength), params
+    )
 
 
 def test_rsa_2048_within_25_percent_of_1905_09749() -> None:
@@ -47,7 +52,9 @@ def test_scales_with_n_like_the_papers_table() -> None:
     assert small.runtime_hours and large.runtime_hours
     qubit_ratio = large.physical_qubits / small.physical_qubits
     time_ratio = large.runtime_hours / small.runtime_hours
-    assert qubit_ratio == pytest.approx(P.GE2019_RSA2048_PHYSICAL / P.GE2019_RSA1024_PHYSICAL, rel=0.15)
+    assert qubit_ratio == pytest.approx(
+        P.GE2019_RSA2048_PHYSICAL / P.GE2019_RSA1024_PHYSICAL, rel=0.15
+    )
     assert time_ratio == pytest.approx(P.GE2019_RSA2048_HOURS / P.GE2019_RSA1024_HOURS, rel=0.10)
 
 
@@ -82,7 +89,11 @@ def test_factory_cap_makes_the_run_factory_limited() -> None:
     assert free.limited_by == "reaction" and free.factories
     capped = _physical(2048, replace(PUBLISHED, max_factories=max(1, free.factories // 4)))
     assert capped.limited_by == "factory"
-    assert capped.runtime_hours and free.runtime_hours and capped.runtime_hours > 3 * free.runtime_hours
+    assert (
+        capped.runtime_hours
+        and free.runtime_hours
+        and capped.runtime_hours > 3 * free.runtime_hours
+    )
 
 
 def test_error_rate_at_threshold_is_refused() -> None:
