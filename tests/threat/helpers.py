@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from pqtriage.catalog.spec import AlgorithmSpec
+from pqtriage.catalog.spec import AlgorithmSpec, GroverTarget
 
 SOURCE = "test fixture"
 
@@ -67,7 +67,7 @@ def cipher(bits: int, name: str | None = None) -> AlgorithmSpec:
     )
 
 
-def hash_(name: str, bits: int, target: str) -> AlgorithmSpec:
+def hash_(name: str, bits: int, target: GroverTarget) -> AlgorithmSpec:
     """A hash of ``bits`` output bits attacked for ``target``."""
     return AlgorithmSpec(
         name,
@@ -79,4 +79,4 @@ def hash_(name: str, bits: int, target: str) -> AlgorithmSpec:
         SOURCE,
         grover_target=target,
         problem_bits=bits,
-    )  # type: ignore[arg-type]
+    )

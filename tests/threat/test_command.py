@@ -14,7 +14,6 @@ from tests.threat.test_view import render
 
 SPECS = [rsa(2048), rsa(3072, 128), curve("ECDSA P-256", 256), cipher(128)]
 BY_NAME = {s.name: s for s in SPECS}
-PUBLISHED = {"error_rate": 1e-3, "cycle_us": 1.0, "reaction_us": 10.0, "maxdepth": 64}
 
 
 def resolve(name: str) -> Resolution:
@@ -28,8 +27,8 @@ def run(
     algorithm: str | None, all_: bool = False, method: str | None = None, fmt: str = "text"
 ) -> object:
     out, code = estimate_command(
-        algorithm, all_, method, output_format=fmt, resolve=resolve, specs=SPECS, **PUBLISHED
-    )  # type: ignore[arg-type]
+        algorithm, all_, method, 1e-3, 1.0, 10.0, 64, fmt, resolve=resolve, specs=SPECS
+    )
     assert code == EXIT_OK
     return out
 
