@@ -1,7 +1,7 @@
 """Published check values for the threat model, each with its source.
 
 Flags as in the shared reference sheet: V checked against the primary text, V2 agreed by
-several secondary transcriptions, M from memory.
+several secondary sources, M from memory.
 """
 
 # "How to factor 2048 bit RSA integers in 8 hours using 20 million noisy qubits"
