@@ -1,0 +1,113 @@
+"""The ``pqtriage estimate`` command as a plain function; the CLI wires it into typer.
+
+It receives the catalog's lookups as arguments (``resolve`` and ``specs``), so it does
+not import the catalog, and it returns what to show; the CLI prints it.
+"""
+
+from __future__ import annotations
+
+import json
+from collections.abc import Callable, Iterable
+from dataclasses import replace
+
+from rich.console import RenderableType
+
+from pqtriage.catalog.spec import AlgorithmSpec, Resolution
+from pqtriage.errors import EXIT_OK, UsageError
+from pqtriage.threat.arrival import ResourceArrivalModel
+from pqtriage.threat.estimate import estimate
+from pqtriage.threat.methods import load_method_data
+from pqtriage.threat.parameters import ThreatParameters
+from pqtriage.threat.view import side_by_side, to_json_dict, working_view
+
+OUTPUT_FORMATS: tuple[str, ...] = ("text", "json")
+Resolver = Callable[[str], "AlgorithmSpec | Resolution | None"]
+
+
+def _resolve(name: str, resolve: Resolver) -> AlgorithmSpec:
+    found = resolve(name)
+    if isinstance(found, Resolution):
+        if found.spec is not None:
+            return found.spec
+        hint = f"did you mean {', '.join(found.suggestions)}?" if found.suggestions else None
+        raise UsageError(
+            f"cannot estimate {name!r}: {found.reason or 'unknown algorithm'}",
+            hint=hint or "see the catalog for known names",
+        )
+    if found is None:
+        raise UsageError(
+            f"cannot estimate {name!r}: unknown algorithm", hint="see the catalog for known names"
+        )
+    return found
+
+
+def estimate_command(
+    algorithm: str | None,
+    all_: bool,
+    method: str | None,
+    error_rate: float,
+    cycle_us: float,
+    reaction_us: float,
+    maxdepth: float,
+    output_format: str,
+    *,
+    resolve: Resolver,
+    specs: Callable[[], Iterable[AlgorithmSpec]] | Iterable[AlgorithmSpec],
+    base: ThreatParameters | None = None,
+) -> tuple[RenderableType | str, int]:
+    """Estimate one algorithm (working view) or all (side-by-side table), or JSON of either.
+
+    Args:
+        algorithm: name to resolve; ignored with ``all_``.
+        all_: estimate every catalog algorithm with a quantum attack side by side.
+        method: construction id (--method), or None for the defaults.
+        error_rate, cycle_us, reaction_us: physical layer (--error-rate, --cycle-us, --reaction-us).
+        maxdepth: log2 of MAXDEPTH (--maxdepth).
+        output_format: text or json.
+        resolve: catalog lookup, name -> AlgorithmSpec or Resolution (or None when unknown).
+        specs: every catalog spec (a sequence or a callable returning one), for ``all_``.
+        base: further parameters (from the profile); the options above override them.
+
+    Returns:
+        The renderable (text) or JSON string, and the exit code.
+
+    Raises:
+        UsageError: unknown algorithm, method or format, or out-of-range options.
+    """
+    if output_format not in OUTPUT_FORMATS:
+        raise UsageError(f"--format {output_format!r} is not supported", hint="use text or json")
+    params = replace(
+        base or ThreatParameters(),
+        physical_error_rate=error_rate,
+        cycle_us=cycle_us,
+        reaction_us=reaction_us,
+        maxdepth_log2=maxdepth,
+    )
+    data = load_method_data()
+    overrides: dict[str, str] = {}
+    if method is not None:
+        chosen = data.method(method)
+        if chosen is None:
+            known = ", ".join(m.id for m in data.shor_methods)
+            raise UsageError(
+                f"--method {method!r} is not a known construction", hint=f"use {known}"
+            )
+        overrides = {family: chosen.id for family in chosen.families}
+    model = ResourceArrivalModel(methods=overrides, params=params, data=data)
+    if all_:
+        pool = specs() if callable(specs) else specs
+        chosen_specs = [s for s in pool if s.quantum_attack in ("shor", "grover")]
+        estimates = [
+            estimate(s, params, method, strict=False, arrival_model=model, data=data)
+            for s in chosen_specs
+        ]
+        if output_format == "json":
+            return json.dumps([to_json_dict(e) for e in estimates], indent=2), EXIT_OK
+        return side_by_side(estimates), EXIT_OK
+    if not algorithm:
+        raise UsageError("name an algorithm or give --all", hint="for example: estimate RSA-2048")
+    spec = _resolve(algorithm, resolve)
+    result = estimate(spec, params, method, strict=True, arrival_model=model, data=data)
+    if output_format == "json":
+        return json.dumps(to_json_dict(result), indent=2), EXIT_OK
+    return working_view(result), EXIT_OK

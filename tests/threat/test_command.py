@@ -1,0 +1,77 @@
+"""The estimate command function with a fake catalog lookup."""
+
+from __future__ import annotations
+
+import json
+
+import pytest
+
+from pqtriage.catalog.spec import Resolution
+from pqtriage.errors import EXIT_OK, UsageError
+from pqtriage.threat.command import estimate_command
+from tests.threat.helpers import cipher, curve, rsa
+from tests.threat.test_view import render
+
+SPECS = [rsa(2048), rsa(3072, 128), curve("ECDSA P-256", 256), cipher(128)]
+BY_NAME = {s.name: s for s in SPECS}
+
+
+def resolve(name: str) -> Resolution:
+    spec = BY_NAME.get(name)
+    if spec is None:
+        return Resolution(None, "unknown algorithm", ("RSA-2048",))
+    return Resolution(spec)
+
+
+def run(
+    algorithm: str | None, all_: bool = False, method: str | None = None, fmt: str = "text"
+) -> object:
+    out, code = estimate_command(
+        algorithm, all_, method, 1e-3, 1.0, 10.0, 64, fmt, resolve=resolve, specs=SPECS
+    )
+    assert code == EXIT_OK
+    return out
+
+
+def test_json_for_one_algorithm_states_the_method() -> None:
+    doc = json.loads(str(run("RSA-2048", method="1905.09749", fmt="json")))
+    assert doc["method"] == "1905.09749" and doc["method_is_default"] is False
+    assert doc["arrival"]["shift_years"] == pytest.approx(0.0)
+    default = json.loads(str(run("RSA-2048", fmt="json")))
+    assert default["method"] == "2505.15917" and default["method_is_default"] is True
+
+
+def test_working_view_mentions_the_default_and_sources() -> None:
+    text = render(run("RSA-2048"))  # type: ignore[arg-type]
+    assert "2505.15917 (default)" in text
+    assert "arXiv:1905.09749" in text and "arXiv:1812.01238" in text
+
+
+def test_all_lists_every_attackable_algorithm_once() -> None:
+    doc = json.loads(str(run(None, all_=True, method="1905.09749", fmt="json")))
+    assert sorted(d["algorithm"] for d in doc) == sorted(BY_NAME)
+    # A factoring method does not apply to curves: they keep their default.
+    methods = {d["algorithm"]: d["method"] for d in doc}
+    assert methods["ECDSA P-256"] == "2306.08585" and methods["RSA-2048"] == "1905.09749"
+
+
+def test_options_reach_the_physical_layer() -> None:
+    base = json.loads(str(run("RSA-2048", fmt="json")))
+    out, _ = estimate_command(
+        "RSA-2048", False, None, 1e-4, 1.0, 10.0, 64, "json", resolve=resolve, specs=SPECS
+    )
+    better = json.loads(str(out))
+    assert better["code_distance"] < base["code_distance"]
+
+
+def test_unknown_algorithm_method_and_format_are_usage_errors() -> None:
+    with pytest.raises(UsageError, match="did you mean RSA-2048"):
+        run("RSA-2049")
+    with pytest.raises(UsageError, match="not a known construction"):
+        run("RSA-2048", method="0000.00000")
+    with pytest.raises(UsageError, match="does not cover"):
+        run("ECDSA P-256", method="1905.09749")
+    with pytest.raises(UsageError, match="--format"):
+        run("RSA-2048", fmt="xml")
+    with pytest.raises(UsageError, match="--all"):
+        run(None)

@@ -1,0 +1,51 @@
+"""The shipped methods.yaml: complete, sourced, and validated at load."""
+
+from __future__ import annotations
+
+import copy
+from importlib import resources
+
+import pytest
+import yaml
+
+from pqtriage.errors import CatalogError
+from pqtriage.threat.methods import load_method_data, parse_method_data
+
+REQUIRED_IDS = {"1905.09749", "2505.15917", "1611.07995", "1706.06752", "2306.08585"}
+
+
+def _document() -> dict:  # type: ignore[type-arg]
+    text = resources.files("pqtriage").joinpath("data", "methods.yaml").read_text(encoding="utf-8")
+    return yaml.safe_load(text)  # type: ignore[no-any-return]
+
+
+def test_every_construction_of_the_issue_is_a_sourced_row() -> None:
+    data = load_method_data()
+    assert {m.id for m in data.shor_methods} == REQUIRED_IDS
+    for m in data.shor_methods:
+        assert m.source and m.title and m.year >= 2017 and m.notes
+        assert f"arXiv:{m.id}" in m.source
+    assert data.surface_code.source
+    assert all(f.source for f in data.grover_figures)
+
+
+@pytest.mark.parametrize(
+    "mutate, message",
+    [
+        (lambda d: d["shor_methods"][0].pop("source"), "missing 'source'"),
+        (lambda d: d["shor_methods"][0].update(families=["lattice"]), "unknown family"),
+        (lambda d: d["shor_methods"].append(copy.deepcopy(d["shor_methods"][0])), "duplicate"),
+        (lambda d: d["shor_methods"][1].update(default_for=[]), "defaults for factoring"),
+        (
+            lambda d: d["shor_methods"][0].update(toffoli_count={"per_toffoli": 1}),
+            "cannot be per_toffoli",
+        ),
+        (lambda d: d["surface_code"].pop("factory_tiles"), "malformed"),
+    ],
+)
+def test_malformed_rows_raise_catalog_errors(mutate: object, message: str) -> None:
+    document = _document()
+    mutate(document)  # type: ignore[operator]
+    with pytest.raises(CatalogError, match=message) as info:
+        parse_method_data(document)
+    assert "methods.yaml" in info.value.diagnostics()

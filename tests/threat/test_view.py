@@ -1,0 +1,138 @@
+"""Formatters: exact text for small cases, and the JSON shape."""
+
+from __future__ import annotations
+
+import io
+import json
+import math
+
+import pytest
+from rich.console import Console, RenderableType
+
+from pqtriage.threat.arrival import ArrivalRow
+from pqtriage.threat.estimate import Estimate, estimate
+from pqtriage.threat.view import side_by_side, to_json_dict, working_view
+from tests.threat.helpers import cipher, hash_, rsa
+
+JSON_FIELDS = (
+    "algorithm",
+    "attack",
+    "method",
+    "classical_security_bits",
+    "logical_qubits",
+    "toffoli_count",
+    "code_distance",
+    "physical_qubits",
+    "runtime_hours",
+    "grover_iterations_log2",
+    "total_gates_log2",
+    "maxdepth_log2",
+    "nist_category",
+    "arrival",
+)
+
+
+def render(renderable: RenderableType) -> str:
+    console = Console(file=io.StringIO(), width=100, color_system=None, force_terminal=False)
+    console.print(renderable)
+    out = console.file.getvalue()  # type: ignore[attr-defined]
+    return "\n".join(line.rstrip() for line in out.splitlines())
+
+
+def _small(name: str = "RSA-[bold]2048[/bold]") -> Estimate:
+    arrival = ArrivalRow(name, "shor", "Shor", 24.0, 2.0**24, 0.0, 0.0, None, "needs 2^24.0")
+    none = dict.fromkeys(
+        (
+            "grover_iterations_log2",
+            "total_gates_log2",
+            "maxdepth_log2",
+            "machines_log2",
+            "quantum_security_bits",
+            "nist_category",
+            "wallclock_years_log2",
+            "break_even_oracle_operations",
+        ),
+    )
+    return Estimate(
+        algorithm=name,
+        attack="shor",
+        method="1905.09749",
+        method_title="t",
+        method_is_default=False,
+        classical_security_bits=112,
+        problem="factoring",
+        problem_bits=2048,
+        logical_qubits=6189.0,
+        toffoli_count=2.7e9,
+        measurement_depth=2.1e9,
+        code_distance=27,
+        physical_qubits=2.0e7,
+        factories=19,
+        runtime_hours=5.1,
+        runtime_limited_by="reaction",
+        failure_probability=0.2,
+        arrival=arrival,
+        working=("step one (source A)", "step two [red]x[/red]"),
+        notes="",
+        **none,  # type: ignore[arg-type]
+    )
+
+
+def test_working_view_exact_text_and_literal_names() -> None:
+    assert render(working_view(_small())) == (
+        "RSA-[bold]2048[/bold]\n"
+        "attack              shor\n"
+        "method              1905.09749\n"
+        "classical security  112 bits\n"
+        "logical qubits      6,189\n"
+        "Toffoli count       2.7e+09\n"
+        "code distance       27\n"
+        "physical qubits     2e+07\n"
+        "runtime per run     5.1 h\n"
+        "NIST category       -\n"
+        "arrival shift       +0.0 y\n"
+        "working:\n"
+        "1. step one (source A)\n"
+        "2. step two [red]x[/red]\n"
+        "\n"
+        "arrival: needs 2^24.0"
+    )
+
+
+def test_side_by_side_exact_text() -> None:
+    text = render(side_by_side([_small("RSA-2048")]))
+    assert text.splitlines() == [
+        "              What falls when (shift against RSA-2048 factored in about a day)",
+        "",
+        "  algorithm   attack   method       qubits   runtime   quantum   category    shift   falls",
+        " " + "\u2500" * 90,
+        "  RSA-2048    shor     1905.09749   2e+07    5.1 h     -         -          +0.0 y   -",
+    ]
+
+
+def test_side_by_side_orders_by_arrival() -> None:
+    from pqtriage.threat.arrival import ResourceArrivalModel
+
+    model = ResourceArrivalModel()
+    rows = [estimate(s, arrival_model=model) for s in (cipher(128), rsa(4096, 152), rsa(1024, 80))]
+    text = render(side_by_side(rows))
+    assert text.index("RSA-1024") < text.index("RSA-4096") < text.index("AES-128")
+    assert "never" in text
+
+
+@pytest.mark.parametrize("spec", [rsa(2048), cipher(128), hash_("SHA-256", 256, "collision")])
+def test_json_has_the_fields_and_nulls_not_zeros(spec: object) -> None:
+    from pqtriage.threat.arrival import ResourceArrivalModel
+
+    result = to_json_dict(estimate(spec, arrival_model=ResourceArrivalModel()))  # type: ignore[arg-type]
+    for field in JSON_FIELDS:
+        assert field in result
+    assert {"median_year", "shift_years"} <= set(result["arrival"])
+    json.dumps(result, allow_nan=False)  # no NaN or Infinity in the JSON
+    if result["attack"] == "shor":
+        assert result["grover_iterations_log2"] is None and result["maxdepth_log2"] is None
+        assert result["physical_qubits"] > 0
+    else:
+        assert result["logical_qubits"] is None and result["code_distance"] is None
+        assert result["arrival"]["shift_years"] is None and result["arrival"]["beyond_horizon"]
+        assert not math.isinf(result["arrival"]["computed_shift_years"] or 0)
