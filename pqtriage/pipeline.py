@@ -29,11 +29,9 @@ def arrival_model_for(profile: ThreatProfile) -> ArrivalModel:
     """Per-algorithm arrivals from resource estimates when the profile asks for them."""
     if not profile.per_algorithm_arrival:
         return SharedArrival()
-    try:
-        from pqtriage.threat.arrival import arrival_model_from_profile
-    except ImportError:
-        return SharedArrival()
-    return arrival_model_from_profile(profile)
+    from pqtriage.threat.arrival import ResourceArrivalModel
+
+    return ResourceArrivalModel(doubling_years=profile.qubit_doubling_years)
 
 
 def run_triage(inventory_path: str, profile_name: str | None, as_of: dt.date) -> TriageResult:
