@@ -115,13 +115,14 @@ def milestone_applies(milestone: Milestone, use: PlanUse, system: PlanCandidate)
         return False
     if scope.max_classical_bits is not None and bits > scope.max_classical_bits:
         return False
-    if scope.policy_categories is not None and system.policy_category not in scope.policy_categories:
+    if (
+        scope.policy_categories is not None
+        and system.policy_category not in scope.policy_categories
+    ):
         return False
     if scope.high_priority_only and not system.high_priority:
         return False
-    if scope.algorithms is not None and not _name_matches(use.algorithm, scope.algorithms):
-        return False
-    return True
+    return scope.algorithms is None or _name_matches(use.algorithm, scope.algorithms)
 
 
 def _deadline(policy: Policy, milestone: Milestone) -> Deadline:
@@ -139,15 +140,15 @@ def _order(deadline: Deadline) -> tuple[datetime.date, str, str]:
     return (deadline.date, deadline.policy, deadline.milestone)
 
 
-def use_deadlines(
-    use: PlanUse, system: PlanCandidate, policies: Sequence[Policy]
-) -> UseDeadlines:
+def use_deadlines(use: PlanUse, system: PlanCandidate, policies: Sequence[Policy]) -> UseDeadlines:
     """Deadlines of one use under the selected policies."""
     if not use.assessed or use.quantum_attack is None:
         reason = use.reason or "the algorithm could not be assessed"
         return UseDeadlines(
-            use, (), undetermined=f"{use.algorithm} ({use.purpose}): no deadline could be "
-            f"determined: {reason}"
+            use,
+            (),
+            undetermined=f"{use.algorithm} ({use.purpose}): no deadline could be "
+            f"determined: {reason}",
         )
     found = [
         _deadline(policy, milestone)

@@ -14,12 +14,16 @@ from types import MappingProxyType
 from pqtriage.errors import PlanError
 from pqtriage.plan.calendar import duration_quarters, plan_origin, quarter_end, quarter_start
 from pqtriage.plan.critical_path import critical_path
-from pqtriage.plan.deadlines import Deadline, SystemDeadlines, organisation_milestones
-from pqtriage.plan.deadlines import system_deadlines
+from pqtriage.plan.deadlines import (
+    Deadline,
+    SystemDeadlines,
+    organisation_milestones,
+    system_deadlines,
+)
 from pqtriage.plan.fixes import Miss, find_fixes
 from pqtriage.plan.inputs import POLICY_CATEGORIES, VENDOR_READINESS, PlanCandidate
 from pqtriage.plan.policies import Policy
-from pqtriage.plan.scheduler import Capacity, Slot, Task, schedule
+from pqtriage.plan.scheduler import UNLIMITED, Capacity, Slot, Task, schedule
 
 DEFAULT_VENDOR_DELAY_QUARTERS: Mapping[str, int] = MappingProxyType(
     {"available": 0, "announced": 4, "unknown": 4}
@@ -41,6 +45,10 @@ class PlanSettings:
     """Readiness assumed when a system gives none."""
     person_weeks_per_year: float = DEFAULT_PERSON_WEEKS_PER_YEAR
     """Default effort per year of migration_years, in person-weeks."""
+
+
+DEFAULT_SETTINGS = PlanSettings()
+"""The documented defaults."""
 
 
 @dataclass(frozen=True)
@@ -145,8 +153,8 @@ def build_plan(
     candidates: Sequence[PlanCandidate],
     as_of: datetime.date,
     policies: Sequence[Policy],
-    capacity: Capacity = Capacity(),
-    settings: PlanSettings = PlanSettings(),
+    capacity: Capacity = UNLIMITED,
+    settings: PlanSettings = DEFAULT_SETTINGS,
 ) -> Plan:
     """Schedule every candidate and check it against its start-by date and deadlines.
 

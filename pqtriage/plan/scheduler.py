@@ -46,10 +46,16 @@ class Capacity:
         """Short text for reports, for example '2 migrations in parallel'."""
         parts = []
         if self.concurrent is not None:
-            parts.append(f"{self.concurrent} migration{'s' if self.concurrent != 1 else ''} in parallel")
+            parts.append(
+                f"{self.concurrent} migration{'s' if self.concurrent != 1 else ''} in parallel"
+            )
         if self.person_weeks_per_quarter is not None:
             parts.append(f"{self.person_weeks_per_quarter:g} person-weeks per quarter")
         return " and ".join(parts) or "unlimited"
+
+
+UNLIMITED = Capacity()
+"""No capacity limit: only dependencies and vendor readiness constrain the plan."""
 
 
 @dataclass(frozen=True)
