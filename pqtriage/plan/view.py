@@ -83,56 +83,61 @@ def plan_view(plan: Plan, period: Period = "year") -> RenderableType:
     first = _period_key(plan, first_q, period)
     last = _period_key(plan, last_q, period)
     unit = "year" if period == "year" else "quarter"
-    table = Table(box=box.SIMPLE_HEAD, show_lines=False, pad_edge=False)
-    table.add_column("System", overflow="fold")
-    table.add_column("Rank", justify="right")
-    table.add_column("Start")
-    table.add_column("Finish")
-    table.add_column("Start by")
-    table.add_column("Earliest deadline", overflow="fold")
-    table.add_column("Slack d", justify="right")
-    table.add_column("Status")
-    table.add_column(
-        f"{_period_label(plan, first_q, period)}…{_period_label(plan, last_q, period)} "
-        f"(1 char = 1 {unit})",
+    table = Table(box=box.SIMPLE_HEAD, pad_edge=False, title_justify="left")
+    table.add_column("Period", no_wrap=True)
+    table.add_column("System", overflow="fold", min_width=10)
+    table.add_column("Rank", justify="right", no_wrap=True)
+    table.add_column("Window", no_wrap=True)
+    table.add_column("Start by", no_wrap=True)
+    table.add_column("Earliest deadline", overflow="fold", min_width=12)
+    table.add_column("Slack d", justify="right", no_wrap=True)
+    table.add_column("Status", min_width=7)
+    chart = Table(box=box.SIMPLE_HEAD, pad_edge=False)
+    chart.add_column("System", no_wrap=True, overflow="ellipsis", max_width=24)
+    chart.add_column(
+        f"{_period_label(plan, first_q, period)} … {_period_label(plan, last_q, period)}",
         no_wrap=True,
+        overflow="crop",
     )
     current: int | None = None
     for system in plan.systems:
         key = _period_key(plan, system.slot.start, period)
+        group = ""
         if key != current:
             if current is not None:
                 table.add_section()
-            table.add_row(
-                Text(f"starting {_period_label(plan, system.slot.start, period)}", style="bold")
-            )
+            group = _period_label(plan, system.slot.start, period)
             current = key
         item = system.candidate
         earliest = system.deadlines.earliest
         word, style = status_of(system)
-        name = literal(item.id, style="bold" if system.on_critical_path else "")
+        ident = literal(item.id, style="bold" if system.on_critical_path else "")
+        name = ident.copy()
         name.append(" ")
         name.append(literal(item.name, style="dim"))
         table.add_row(
+            Text(group, style="bold"),
             name,
             str(item.priority_rank),
-            quarter_label(plan.origin, system.slot.start),
-            quarter_label(plan.origin, system.slot.finish),
+            f"{quarter_label(plan.origin, system.slot.start)}–"
+            f"{quarter_label(plan.origin, system.slot.finish)}",
             item.start_by.isoformat() if item.start_by else "-",
-            literal(f"{earliest.date} {earliest.policy} {earliest.kind}") if earliest else "-",
+            literal(f"{earliest.date} {earliest.kind} ({earliest.policy})") if earliest else "-",
             "" if system.deadline_slack_days is None else str(system.deadline_slack_days),
             Text(word, style=style),
-            _timeline(plan, system, period, first, last),
         )
+        chart.add_row(ident, _timeline(plan, system, period, first, last))
     header = Text(
         f"Migration plan from {plan.start} (made {plan.as_of}); capacity "
         f"{plan.capacity.describe()}; policies "
     )
     header.append(literal(", ".join(p.id for p in plan.policies)))
     legend = Text(
-        "█ migrating  S start-by  D earliest deadline  bold id: critical path", style="dim"
+        f"Timeline: 1 character = 1 {unit}; █ migrating, S start-by, D earliest deadline; "
+        "bold id: critical path",
+        style="dim",
     )
-    parts: list[RenderableType] = [header, table, legend]
+    parts: list[RenderableType] = [header, table, chart, legend]
     path = Text("Critical path: ")
     path.append(literal(" -> ".join(plan.critical_path) or "none"))
     parts.append(path)
