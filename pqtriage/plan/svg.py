@@ -32,7 +32,7 @@ COLOURS = {
 }
 START_BY_COLOUR = "#1565c0"
 DEADLINE_MET_COLOUR = "#424242"
-DEADLINE_MISSED_COLOUR = "#c62828"
+DEADLINE_MISSED_COLOUR = "#b71c1c"
 _NOT_XML = re.compile(r"[\x00-\x08\x0b\x0c\x0e-\x1f\x7f-\x9f\ud800-\udfff\ufffe\uffff]")
 
 
@@ -82,7 +82,7 @@ def _row(scale: _Scale, system: SystemPlan, index: int) -> list[str]:
     mid = y + ROW_HEIGHT / 2
     word, _ = status_of(system)
     out = [f'<g class="system" data-system={_attr(item.id)}>']
-    label = _shorten(f"{item.id} — {item.name}", 44)
+    label = _shorten(f"{item.id} — {item.name}", 38)
     weight = ' font-weight="bold"' if system.on_critical_path else ""
     out.append(
         f'<text x="{LABEL_WIDTH - 8}" y="{mid + 4}" text-anchor="end"{weight}>{_text(label)}</text>'
@@ -113,6 +113,11 @@ def _row(scale: _Scale, system: SystemPlan, index: int) -> list[str]:
     for date, notes in sorted(by_date.items()):
         dx = scale.x(date + datetime.timedelta(days=1))
         colour = DEADLINE_MISSED_COLOUR if date in missed else DEADLINE_MET_COLOUR
+        # A white halo keeps the tick visible where it crosses a bar of the same colour.
+        out.append(
+            f'<line x1="{dx}" x2="{dx}" y1="{y + 3}" y2="{y + ROW_HEIGHT - 3}" '
+            'stroke="#ffffff" stroke-width="5.5"/>'
+        )
         out.append(
             f'<line class="deadline" x1="{dx}" x2="{dx}" y1="{y + 3}" y2="{y + ROW_HEIGHT - 3}" '
             f'stroke="{colour}" stroke-width="2.5"><title>{_text("; ".join(notes))}</title></line>'

@@ -134,7 +134,10 @@ def test_uk_ncsc_2031_for_high_priority_2035_for_all() -> None:
     # UK NCSC, Timelines for migration to post-quantum cryptography (Mar 2025), V2.
     high = candidate("s", criticality="critical")
     low = candidate("s", criticality="low")
-    assert dates(high, "uk-ncsc") == {("migrate-by", D(2031, 12, 31)), ("migrate-by", D(2035, 12, 31))}
+    assert dates(high, "uk-ncsc") == {
+        ("migrate-by", D(2031, 12, 31)),
+        ("migrate-by", D(2035, 12, 31)),
+    }
     assert dates(low, "uk-ncsc") == {("migrate-by", D(2035, 12, 31))}
     plan_by = organisation_milestones(select_policies(["uk-ncsc"]))
     assert [(d.kind, d.date) for d in plan_by] == [("plan-by", D(2028, 12, 31))]
@@ -142,8 +145,12 @@ def test_uk_ncsc_2031_for_high_priority_2035_for_all() -> None:
 
 def test_eu_roadmap_2030_for_high_risk() -> None:
     # EU, A Coordinated Implementation Roadmap for the transition to PQC (Jun 2025), V2.
-    assert ("migrate-by", D(2030, 12, 31)) in dates(candidate("s", criticality="high"), "eu-roadmap")
-    assert dates(candidate("s", criticality="medium"), "eu-roadmap") == {("migrate-by", D(2035, 12, 31))}
+    assert ("migrate-by", D(2030, 12, 31)) in dates(
+        candidate("s", criticality="high"), "eu-roadmap"
+    )
+    assert dates(candidate("s", criticality="medium"), "eu-roadmap") == {
+        ("migrate-by", D(2035, 12, 31))
+    }
     assert organisation_milestones(select_policies(["eu-roadmap"]))[0].date == D(2026, 12, 31)
 
 

@@ -7,7 +7,7 @@ import io
 import json
 
 import pytest
-from plan_helpers import ECDH_P256, RSA_2048_SIGNATURE, UNKNOWN, candidate
+from plan_helpers import ECDH_P256, UNKNOWN, candidate
 from rich.console import Console
 
 from pqtriage.errors import PlanError, UsageError
@@ -119,15 +119,21 @@ def test_terminal_view_by_year_exact() -> None:
     # 2027-Q2..2028-Q1 migrating: years 2027 and 2028 active; start-by in 2027 (S over the
     # bar); earliest deadline 2030-12-31 (D); the axis runs to the 2035 deadline.
     lines = [
-        "Migration plan from 2027-04-01 (made 2027-02-15); capacity 1 migration in parallel; "
-        "policies ",
+        (
+            "Migration plan from 2027-04-01 (made 2027-02-15); capacity 1 migration in parallel; "
+            "policies "
+        ),
         "nist-ir-8547",
         " " * 100,
-        " Period   System        Rank   Window            Start by     Earliest deadline   "
-        "Slack d   Status  ",
+        (
+            " Period   System        Rank   Window            Start by     Earliest deadline   "
+            "Slack d   Status  "
+        ),
         " " + "─" * 98 + " ",
-        " 2027     pki Root CA      1   2027-Q2–2028-Q1   2027-06-30   2030-12-31          "
-        "   1005   on time ",
+        (
+            " 2027     pki Root CA      1   2027-Q2–2028-Q1   2027-06-30   2030-12-31          "
+            "   1005   on time "
+        ),
         " " * 62 + "deprecated" + " " * 28,
         " " * 62 + "(nist-ir-8547)" + " " * 24,
         " " * 100,
@@ -136,8 +142,10 @@ def test_terminal_view_by_year_exact() -> None:
         " " + "─" * 20 + " ",
         " pki      S█·D·····   ",
         " " * 22,
-        "Timeline: 1 character = 1 year; █ migrating, S start-by, D earliest deadline; bold id: "
-        "critical path",
+        (
+            "Timeline: 1 character = 1 year; █ migrating, S start-by, D earliest deadline; bold id: "
+            "critical path"
+        ),
         "Critical path: pki",
     ]
     assert render(renderable) == "\n".join(lines) + "\n"

@@ -108,7 +108,9 @@ def test_priority_orders_the_start_and_a_dependency_inherits_urgency() -> None:
 
 
 def test_a_migration_larger_than_the_capacity_is_lengthened() -> None:
-    (slot,) = schedule([Task("big", 2, 0, (), 1, 60.0)], Capacity(person_weeks_per_quarter=20.0)).values()
+    (slot,) = schedule(
+        [Task("big", 2, 0, (), 1, 60.0)], Capacity(person_weeks_per_quarter=20.0)
+    ).values()
     assert (slot.duration, slot.load, slot.stretched) == (3, 20.0, True)
 
 
