@@ -1,0 +1,256 @@
+"""List scheduling of migrations in whole quarters under a capacity limit.
+
+Deterministic: quarter by quarter, the systems whose dependencies have finished
+and whose vendor delay has passed start in priority order while capacity
+allows. The priority of a system is the most urgent rank among itself and all
+systems that (transitively) wait on it, so a PKI needed by the most urgent
+system goes first; ties go by the system's own rank, then its id. A system that
+does not fit leaves the capacity to the next one (greedy list scheduling).
+"""
+
+from __future__ import annotations
+
+import math
+from collections import defaultdict
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass
+
+from pqtriage.errors import PlanError, UsageError
+
+_TOLERANCE = 1e-9
+
+
+@dataclass(frozen=True)
+class Capacity:
+    """How much migration work can run at once; None on both means unlimited."""
+
+    concurrent: int | None = None
+    """Most migrations in progress in any quarter."""
+    person_weeks_per_quarter: float | None = None
+    """Most person-weeks of migration work in any quarter."""
+
+    def __post_init__(self) -> None:
+        if self.concurrent is not None and self.concurrent < 1:
+            raise UsageError(
+                f"capacity of {self.concurrent} migrations in parallel cannot schedule anything",
+                hint="give at least 1",
+            )
+        if self.person_weeks_per_quarter is not None and not self.person_weeks_per_quarter > 0:
+            raise UsageError(
+                f"capacity of {self.person_weeks_per_quarter} person-weeks per quarter "
+                "cannot schedule anything",
+                hint="give a positive number",
+            )
+
+    def describe(self) -> str:
+        """Short text for reports, for example '2 migrations in parallel'."""
+        parts = []
+        if self.concurrent is not None:
+            parts.append(
+                f"{self.concurrent} migration{'s' if self.concurrent != 1 else ''} in parallel"
+            )
+        if self.person_weeks_per_quarter is not None:
+            parts.append(f"{self.person_weeks_per_quarter:g} person-weeks per quarter")
+        return " and ".join(parts) or "unlimited"
+
+
+UNLIMITED = Capacity()
+"""No capacity limit: only dependencies and vendor readiness constrain the plan."""
+
+
+@dataclass(frozen=True)
+class Task:
+    """One migration to place in the calendar."""
+
+    id: str
+    """System id."""
+    duration: int
+    """Planned length in quarters (at least 1)."""
+    release: int
+    """Earliest plan quarter it may start (vendor readiness delay)."""
+    depends_on: tuple[str, ...]
+    """Ids that must finish before it starts."""
+    priority_rank: int
+    """Triage rank, 1 most urgent."""
+    effort_person_weeks: float
+    """Total effort, spread evenly over the quarters it runs."""
+
+
+@dataclass(frozen=True)
+class Slot:
+    """Where a task landed."""
+
+    id: str
+    """System id."""
+    start: int
+    """First plan quarter of the migration."""
+    finish: int
+    """Last plan quarter of the migration (inclusive)."""
+    load: float
+    """Person-weeks per quarter while it runs."""
+    stretched: bool
+    """True when the duration was lengthened so that its load fits the capacity."""
+    dependency_ready: int
+    """First quarter after every dependency finished (0 without dependencies)."""
+    release: int
+    """Earliest start allowed by vendor readiness."""
+    gate: str
+    """What fixed the start: plan-start, dependency, vendor or capacity."""
+
+    @property
+    def duration(self) -> int:
+        """Quarters occupied."""
+        return self.finish - self.start + 1
+
+
+def find_cycle(depends_on: Mapping[str, Sequence[str]]) -> list[str] | None:
+    """A dependency cycle as [a, b, ..., a], or None; deterministic (ids visited sorted)."""
+    state: dict[str, int] = {}  # 1 = on the current path, 2 = done
+    for root in sorted(depends_on):
+        if state.get(root):
+            continue
+        path: list[str] = []
+        stack: list[tuple[str, int]] = [(root, 0)]
+        while stack:
+            node, index = stack.pop()
+            if index == 0:
+                state[node] = 1
+                path.append(node)
+            children = sorted(depends_on.get(node, ()))
+            if index < len(children):
+                stack.append((node, index + 1))
+                child = children[index]
+                if state.get(child) == 1:
+                    return path[path.index(child) :] + [child]
+                if not state.get(child):
+                    stack.append((child, 0))
+            else:
+                state[node] = 2
+                path.pop()
+    return None
+
+
+def check_dependencies(tasks: Sequence[Task]) -> None:
+    """Refuse duplicate ids, unknown dependency ids and cycles.
+
+    Raises:
+        PlanError: naming the system and the offending id, or the cycle.
+    """
+    ids = [t.id for t in tasks]
+    duplicates = sorted({i for i in ids if ids.count(i) > 1})
+    if duplicates:
+        raise PlanError(f"system id(s) {', '.join(duplicates)} appear more than once")
+    known = set(ids)
+    for task in tasks:
+        missing = [d for d in task.depends_on if d not in known]
+        if missing:
+            raise PlanError(
+                f"system '{task.id}' depends on unknown system(s) {', '.join(missing)}",
+                hint="add them to the inventory or remove them from depends_on",
+            )
+    cycle = find_cycle({t.id: t.depends_on for t in tasks})
+    if cycle:
+        raise PlanError(
+            f"dependency cycle: {' -> '.join(cycle)}",
+            hint="remove one depends_on link of the cycle",
+        )
+
+
+def topological_order(tasks: Sequence[Task]) -> list[str]:
+    """Ids with every dependency before its dependants; ties by id (input must be acyclic)."""
+    remaining = {t.id: set(t.depends_on) for t in tasks}
+    dependants: dict[str, list[str]] = defaultdict(list)
+    for task in tasks:
+        for dep in task.depends_on:
+            dependants[dep].append(task.id)
+    ready = sorted(i for i, deps in remaining.items() if not deps)
+    order: list[str] = []
+    while ready:
+        current = ready.pop(0)
+        order.append(current)
+        for child in dependants[current]:
+            remaining[child].discard(current)
+            if not remaining[child]:
+                ready.append(child)
+        ready.sort()
+    return order
+
+
+def effective_ranks(tasks: Sequence[Task]) -> dict[str, int]:
+    """Most urgent rank among each task and everything that transitively depends on it."""
+    by_id = {t.id: t for t in tasks}
+    result = {t.id: t.priority_rank for t in tasks}
+    for task_id in reversed(topological_order(tasks)):
+        for dep in by_id[task_id].depends_on:
+            result[dep] = min(result[dep], result[task_id])
+    return result
+
+
+def _shape(task: Task, capacity: Capacity) -> tuple[int, float, bool]:
+    """Duration and per-quarter load, stretched when the load alone exceeds the capacity."""
+    duration = task.duration
+    limit = capacity.person_weeks_per_quarter
+    if limit is not None and task.effort_person_weeks / duration > limit + _TOLERANCE:
+        duration = math.ceil(task.effort_person_weeks / limit - _TOLERANCE)
+        return duration, task.effort_person_weeks / duration, True
+    return duration, task.effort_person_weeks / duration, False
+
+
+def schedule(tasks: Sequence[Task], capacity: Capacity) -> dict[str, Slot]:
+    """Place every task exactly once, respecting dependencies, releases and capacity.
+
+    Raises:
+        PlanError: on duplicate ids, unknown dependencies or a dependency cycle.
+    """
+    check_dependencies(tasks)
+    ranks = effective_ranks(tasks)
+    order = sorted(tasks, key=lambda t: (ranks[t.id], t.priority_rank, t.id))
+    shapes = {t.id: _shape(t, capacity) for t in tasks}
+    running: dict[int, int] = defaultdict(int)
+    weeks: dict[int, float] = defaultdict(float)
+    slots: dict[str, Slot] = {}
+    pending = list(order)
+    quarter = 0
+    while pending:
+        waiting: list[Task] = []
+        for task in pending:
+            deps_done = all(d in slots and slots[d].finish < quarter for d in task.depends_on)
+            duration, load, stretched = shapes[task.id]
+            window = range(quarter, quarter + duration)
+            fits = all(
+                (capacity.concurrent is None or running[q] + 1 <= capacity.concurrent)
+                and (
+                    capacity.person_weeks_per_quarter is None
+                    or weeks[q] + load <= capacity.person_weeks_per_quarter + _TOLERANCE
+                )
+                for q in window
+            )
+            if not (deps_done and task.release <= quarter and fits):
+                waiting.append(task)
+                continue
+            for q in window:
+                running[q] += 1
+                weeks[q] += load
+            dependency_ready = max((slots[d].finish + 1 for d in task.depends_on), default=0)
+            slots[task.id] = Slot(
+                id=task.id,
+                start=quarter,
+                finish=quarter + duration - 1,
+                load=load,
+                stretched=stretched,
+                dependency_ready=dependency_ready,
+                release=task.release,
+                gate=_gate(quarter, dependency_ready, task.release),
+            )
+        pending = waiting
+        quarter += 1
+    return slots
+
+
+def _gate(start: int, dependency_ready: int, release: int) -> str:
+    earliest = max(dependency_ready, release, 0)
+    if start > earliest:
+        return "capacity"
+    if earliest == 0:
+        return "plan-start"
+    return "dependency" if dependency_ready >= release else "vendor"
