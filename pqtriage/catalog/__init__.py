@@ -7,4 +7,38 @@ Public API (stable, used by the model and the formats):
   purpose=None) -> Resolution``
 - ``Catalog.suggest(name, limit=3) -> tuple[str, ...]``
 - ``Catalog.specs() -> tuple[AlgorithmSpec, ...]``: every fixed-parameter entry.
+- ``Catalog.spellings() -> tuple[str, ...]``: every known spelling.
 """
+
+from __future__ import annotations
+
+import functools
+from importlib import resources
+from pathlib import Path
+
+from pqtriage.catalog.loader import read_catalog
+from pqtriage.catalog.resolve import Catalog
+from pqtriage.catalog.spec import AlgorithmSpec, Component, Resolution
+
+__all__ = ["AlgorithmSpec", "Catalog", "Component", "Resolution", "load_catalog", "shipped_path"]
+
+
+def shipped_path() -> Path:
+    """Path of the catalog file shipped with the package."""
+    return Path(str(resources.files("pqtriage") / "data" / "catalog.yaml"))
+
+
+@functools.lru_cache(maxsize=1)
+def _shipped() -> Catalog:
+    return Catalog(read_catalog(shipped_path()))
+
+
+def load_catalog(path: Path | None = None) -> Catalog:
+    """Load the shipped catalog (loaded once, then cached) or the catalog file at ``path``.
+
+    Raises:
+        CatalogError: the file is missing, not YAML, or a row is malformed (the message names it).
+    """
+    if path is None:
+        return _shipped()
+    return Catalog(read_catalog(Path(path)))

@@ -58,6 +58,12 @@ class AlgorithmSpec:
     """True for a hybrid of a classical and a post-quantum scheme (X25519MLKEM768)."""
     notes: str = ""
     """Short remark shown with the finding (why it is weak, what limits it)."""
+    preimage_bits: int | None = None
+    """Hashes only: classical preimage strength in bits (the full output, SP 800-107 Rev. 1)."""
+    preimage_category: int | None = None
+    """Hashes only: NIST category against preimage search (NIST IR 8547 ipd, Table 7)."""
+    identifiers: dict[str, str] = field(default_factory=dict, compare=False, hash=False)
+    """Protocol and format identifiers: X.509 OID, TLS code point, SSH name ..."""
 
     def replacement_for(self, purpose: str) -> str | None:
         """Return the standardized replacement for a purpose, or None if none is needed."""
@@ -84,6 +90,10 @@ class Resolution:
     """Why it is unassessed (unknown name, missing key size ...)."""
     suggestions: tuple[str, ...] = ()
     """Close known names, for "did you mean"."""
+    family: str | None = None
+    """Family recognised even when unassessed (RSA without a key size), else None."""
+    quantum_attack: QuantumAttack | None = None
+    """Quantum attack class known even when unassessed (RSA of any size falls to Shor)."""
 
     @property
     def assessed(self) -> bool:
