@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from rich import box
 from rich.console import Group, RenderableType
 from rich.table import Table
 from rich.text import Text
@@ -49,7 +50,16 @@ def short_replacement(text: str | None) -> str:
     return head.split(" (")[0].strip()
 
 
-def _row(item: SystemAssessment) -> list[RenderableType]:
+def _start_by(item: SystemAssessment, as_of: object) -> Text:
+    """The start-by date, or 'overdue' when it has passed (the JSON keeps the date)."""
+    if item.start_by is None:
+        return Text("-")
+    if item.start_by <= as_of:  # type: ignore[operator]
+        return Text("overdue", style="red")
+    return Text(item.start_by.isoformat())
+
+
+def _row(item: SystemAssessment, as_of: object) -> list[RenderableType]:
     weakest = item.weakest
     if weakest is None:
         algo = Text("(no uses)")
@@ -63,7 +73,7 @@ def _row(item: SystemAssessment) -> list[RenderableType]:
         x = _years(weakest.x_years)
         replacement = short_replacement(weakest.replacement)
     probability = "-" if item.exposure_probability is None else f"{item.exposure_probability:.0%}"
-    start_by = item.start_by.isoformat() if item.start_by else "-"
+    start_by = _start_by(item, as_of)
     system = Text(visible(item.system.id))
     if item.system.assumed:
         system.append("*", style="bold")
@@ -86,21 +96,23 @@ def ranked_table(result: TriageResult, top: int | None = None) -> Table:
         title=Text(f"Post-quantum triage of {visible(result.inventory.organization)}"),
         caption=Text(f"as of {result.as_of.isoformat()}, profile {visible(result.profile.name)}"),
         header_style="bold",
+        box=box.SIMPLE_HEAD,
         expand=False,
         pad_edge=False,
+        collapse_padding=True,
     )
     table.add_column("#", justify="right", no_wrap=True)
-    table.add_column("System", overflow="fold", ratio=3)
-    table.add_column("Weakest use", overflow="fold", ratio=3)
+    table.add_column("System", overflow="fold", min_width=19)
+    table.add_column("Weakest use", overflow="fold", min_width=12)
     table.add_column("x", justify="right", no_wrap=True)
     table.add_column("y", justify="right", no_wrap=True)
     table.add_column("Start by", no_wrap=True)
     table.add_column("P(exp)", justify="right", no_wrap=True)
     table.add_column("Verdict", no_wrap=True)
-    table.add_column("Replace with", overflow="fold", ratio=2)
+    table.add_column("Replace with", overflow="fold", min_width=10)
     items = result.items if top is None else result.items[:top]
     for item in items:
-        table.add_row(*_row(item))
+        table.add_row(*_row(item, result.as_of))
     return table
 
 
@@ -123,8 +135,9 @@ def summary_block(result: TriageResult, top: int | None = None) -> Text:
         shown = ", ".join(visible(s) for s in summary.overdue[:8])
         more = f" and {len(summary.overdue) - 8} more" if len(summary.overdue) > 8 else ""
         text.append(f"Overdue (start-by date passed or broken now): {shown}{more}\n", style="red")
-    if summary.earliest_start_by:
-        text.append(f"Earliest start-by date: {summary.earliest_start_by.isoformat()}\n")
+    upcoming = sorted(i.start_by for i in result.items if i.start_by and i.start_by > result.as_of)
+    if upcoming:
+        text.append(f"Next start-by date still ahead: {upcoming[0].isoformat()}\n")
     if any(item.system.assumed for item in result.items):
         text.append("* some x or y values are assumed defaults, not inventory facts\n")
     for warning in result.inventory.warnings[:5]:
