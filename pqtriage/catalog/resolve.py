@@ -57,7 +57,9 @@ class _Target:
     @property
     def identity(self) -> str:
         """Two spellings with the same identity name the same thing."""
-        return f"fixed:{self.spec.name}" if self.spec is not None else f"{self.kind}:{self.label}"
+        if self.spec is not None:
+            return f"fixed:{self.spec.name}"
+        return f"{self.kind}:{self.label}" + (f" via {self.name_row['name']}" if self.name_row else "")
 
 
 class Catalog:

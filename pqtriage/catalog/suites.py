@@ -38,12 +38,17 @@ class SuiteParser:
     """Decomposes TLS cipher suite names using the catalog's token tables."""
 
     def __init__(self, tokens: dict[str, Any], catalog: Catalog, path: str) -> None:
-        self.tokens = tokens
+        # Suite names are matched in upper case (TLS_DH_anon_... is written with a lower-case part).
+        self.tokens = {
+            key: ({str(k).upper(): v for k, v in value.items()} if isinstance(value, dict) else value)
+            for key, value in tokens.items()
+        }
         self.catalog = catalog
         self.path = path
-        self._ciphers = sorted(tokens["ciphers"], key=len, reverse=True)
-        self._openssl_kx = sorted(tokens["openssl_key_exchange"], key=len, reverse=True)
-        self._openssl_ciphers = sorted(tokens["openssl_ciphers"], key=len, reverse=True)
+        self._kx_spelling = {str(token).upper(): str(token) for token in tokens["key_exchange"]}
+        self._ciphers = sorted(self.tokens["ciphers"], key=len, reverse=True)
+        self._openssl_kx = sorted(self.tokens["openssl_key_exchange"], key=len, reverse=True)
+        self._openssl_ciphers = sorted(self.tokens["openssl_ciphers"], key=len, reverse=True)
         # Every referenced entry must exist: a broken token table is a packaging bug.
         for name in (*tokens["ciphers"].values(), *tokens["hashes"].values()):
             catalog.fixed(name)
@@ -92,7 +97,7 @@ class SuiteParser:
                 else:
                     continue
                 name_hash = f"_{digest}" if in_name else ""
-                return f"TLS_{kx}_WITH_{row['iana']}{name_hash}"
+                return f"TLS_{kx}_WITH_{row['iana']}{name_hash}".upper()
         return None
 
     def _compose(
@@ -100,6 +105,8 @@ class SuiteParser:
         key_size: int | None, curve: str | None,
     ) -> Resolution:
         name = "TLS_" + iana[4:]
+        if kx:  # the registry's own spelling of the key exchange (TLS_DH_anon_...)
+            name = name.replace(f"TLS_{kx}_WITH_", f"TLS_{self._kx_spelling[kx]}_WITH_", 1)
         parts: list[Component] = []
         missing: list[str] = []
         quantum: list[str] = []
