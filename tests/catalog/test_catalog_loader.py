@@ -47,16 +47,24 @@ def test_missing_source_names_the_row(tmp_path: Path) -> None:
 
 @pytest.mark.parametrize(
     ("change", "message"),
-    [(lambda d: d["entries"][1]["rows"][0].update(colour="blue"), "unknown key 'colour'"),
-     (lambda d: d["entries"][1]["rows"][0].update(status="fine"), "'status' is 'fine'"),
-     (lambda d: d["entries"][1]["rows"][0].update(quantum="magic"), "'quantum' is 'magic'"),
-     (lambda d: d["entries"][1]["rows"][0].update(bits="many"), "'bits' has the wrong type"),
-     (lambda d: d["entries"][1]["rows"][0].update(replacements="nothing"), "unknown replacement set"),
-     (lambda d: d["curves"][0].pop("order_bits"), "missing 'order_bits'"),
-     (lambda d: d["names"][0].update(source=" "), "empty 'source'"),
-     (lambda d: d.update(extra={}), "unknown key 'extra'"),
-     (lambda d: d["entries"][-1]["rows"][0]["components"][0].update(ref="Nope"), "component 'Nope'"),
-     (lambda d: d["names"][0].update(name="RSA"), "spelling 'RSA' names both")],
+    [
+        (lambda d: d["entries"][1]["rows"][0].update(colour="blue"), "unknown key 'colour'"),
+        (lambda d: d["entries"][1]["rows"][0].update(status="fine"), "'status' is 'fine'"),
+        (lambda d: d["entries"][1]["rows"][0].update(quantum="magic"), "'quantum' is 'magic'"),
+        (lambda d: d["entries"][1]["rows"][0].update(bits="many"), "'bits' has the wrong type"),
+        (
+            lambda d: d["entries"][1]["rows"][0].update(replacements="nothing"),
+            "unknown replacement set",
+        ),
+        (lambda d: d["curves"][0].pop("order_bits"), "missing 'order_bits'"),
+        (lambda d: d["names"][0].update(source=" "), "empty 'source'"),
+        (lambda d: d.update(extra={}), "unknown key 'extra'"),
+        (
+            lambda d: d["entries"][-1]["rows"][0]["components"][0].update(ref="Nope"),
+            "component 'Nope'",
+        ),
+        (lambda d: d["names"][0].update(name="RSA"), "spelling 'RSA' names both"),
+    ],
 )
 def test_malformed_rows(tmp_path: Path, change, message: str) -> None:
     data = _shipped_data()

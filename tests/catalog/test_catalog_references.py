@@ -8,9 +8,15 @@ from cryptography.hazmat.primitives.asymmetric import ec
 from pqtriage.catalog import Catalog
 
 CURVES = {
-    "P-192": ec.SECP192R1, "P-224": ec.SECP224R1, "P-256": ec.SECP256R1, "P-384": ec.SECP384R1,
-    "P-521": ec.SECP521R1, "secp256k1": ec.SECP256K1, "brainpoolP256r1": ec.BrainpoolP256R1,
-    "brainpoolP384r1": ec.BrainpoolP384R1, "brainpoolP512r1": ec.BrainpoolP512R1,
+    "P-192": ec.SECP192R1,
+    "P-224": ec.SECP224R1,
+    "P-256": ec.SECP256R1,
+    "P-384": ec.SECP384R1,
+    "P-521": ec.SECP521R1,
+    "secp256k1": ec.SECP256K1,
+    "brainpoolP256r1": ec.BrainpoolP256R1,
+    "brainpoolP384r1": ec.BrainpoolP384R1,
+    "brainpoolP512r1": ec.BrainpoolP512R1,
 }
 
 

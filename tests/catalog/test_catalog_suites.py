@@ -17,8 +17,11 @@ SIZES = {"key_size": 2048, "curve": "P-256"}
 def _parts(spec) -> dict[str, list[str]]:
     parts: dict[str, list[str]] = {}
     for component in spec.components:
-        name = component.spec.family if component.purpose in ("key-establishment", "authentication") \
+        name = (
+            component.spec.family
+            if component.purpose in ("key-establishment", "authentication")
             else component.spec.name
+        )
         parts.setdefault(component.purpose, []).append(name)
     return parts
 
@@ -101,8 +104,11 @@ def test_against_the_local_openssl(catalog: Catalog) -> None:
     checked = 0
     for cipher in _local_openssl_ciphers():
         symmetric = catalog.resolve(cipher["symmetric"] or "").spec
-        if cipher["kea"] not in (*KEA, "kx-any") or cipher["auth"] not in (*AUTH, "auth-any") \
-                or symmetric is None:
+        if (
+            cipher["kea"] not in (*KEA, "kx-any")
+            or cipher["auth"] not in (*AUTH, "auth-any")
+            or symmetric is None
+        ):
             continue  # a kind the catalog does not model (ARIA, SEED, PSK/SRP variants)
         spec = catalog.resolve(cipher["name"], **SIZES).spec
         assert spec is not None, cipher["name"]
@@ -110,7 +116,9 @@ def test_against_the_local_openssl(catalog: Catalog) -> None:
             assert cipher["name"] in ("AES128-CCM", "AES256-CCM")  # also the cipher's own name
             continue
         parts = _parts(spec)
-        assert parts.get("key-establishment") == ([KEA[cipher["kea"]]] if cipher["kea"] in KEA else None)
+        assert parts.get("key-establishment") == (
+            [KEA[cipher["kea"]]] if cipher["kea"] in KEA else None
+        )
         auth = AUTH.get(cipher["auth"])
         assert parts.get("authentication") == ([auth] if auth else None), cipher["name"]
         assert parts["encryption"] == [symmetric.name], cipher["name"]
