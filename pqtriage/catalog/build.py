@@ -9,10 +9,10 @@ strength from NIST SP 800-57 Part 1 Rev. 5 Table 2.
 from __future__ import annotations
 
 from dataclasses import replace
-from typing import Any
+from typing import Any, NoReturn, cast
 
 from pqtriage.catalog.loader import RawCatalog, Row, _fail
-from pqtriage.catalog.spec import AlgorithmSpec, Component
+from pqtriage.catalog.spec import AlgorithmSpec, ClassicalStatus, Component
 from pqtriage.catalog.strength import StrengthTable, cap_status, join_notes
 
 
@@ -34,8 +34,11 @@ class SpecBuilder:
             self._curve_specs(curve)
         for group in raw.groups:
             spec = self.sized(self.families["FFDH"], group["p_bits"], name=group["name"])
-            spec = replace(spec, source=f"{group['source']}; {spec.source}",
-                           notes=join_notes(spec.notes, group.get("notes")))
+            spec = replace(
+                spec,
+                source=f"{group['source']}; {spec.source}",
+                notes=join_notes(spec.notes, group.get("notes")),
+            )
             self._add(spec, group.get("aliases", []))
         for row in raw.entries:
             self._entry(row)
@@ -45,7 +48,7 @@ class SpecBuilder:
                 self.fixed.setdefault(spec.name, spec)
 
     # -- helpers --------------------------------------------------------------------------
-    def fail(self, label: str, message: str) -> None:
+    def fail(self, label: str, message: str) -> NoReturn:
         """Raise a CatalogError naming the row."""
         _fail(self.raw.path, label, message)
 
@@ -55,8 +58,10 @@ class SpecBuilder:
             return {}
         texts = self.raw.replacements.get(str(ref))
         if texts is None:
-            self.fail(label, f"unknown replacement set '{ref}' (known: {', '.join(self.raw.replacements)})")
-            raise AssertionError  # unreachable: _fail raises
+            self.fail(
+                label,
+                f"unknown replacement set '{ref}' (known: {', '.join(self.raw.replacements)})",
+            )
         return dict(texts)
 
     def _add(self, spec: AlgorithmSpec, aliases: list[str]) -> None:
@@ -69,10 +74,11 @@ class SpecBuilder:
         """A fixed spec by canonical name or alias (case-insensitive), for component refs."""
         wanted = name.casefold()
         for canonical, spec in self.fixed.items():
-            if canonical.casefold() == wanted or wanted in (a.casefold() for a in self.aliases[canonical]):
+            if canonical.casefold() == wanted or wanted in (
+                a.casefold() for a in self.aliases[canonical]
+            ):
                 return spec
         self.fail(label, f"component '{name}' is not a catalog entry defined above it")
-        raise AssertionError  # unreachable
 
     def _check_families(self) -> None:
         for family in self.raw.families:
@@ -92,8 +98,13 @@ class SpecBuilder:
 
     # -- parameterised families -----------------------------------------------------------
     def sized(
-        self, family: Row, size: int, *, purpose: str | None = None,
-        name: str | None = None, name_row: Row | None = None,
+        self,
+        family: Row,
+        size: int,
+        *,
+        purpose: str | None = None,
+        name: str | None = None,
+        name_row: Row | None = None,
     ) -> AlgorithmSpec:
         """Spec of an IFC/FFC family (RSA, FFDH, DSA) at ``size`` bits."""
         bits = self.table.bits(family["parameter"], size)
@@ -102,12 +113,24 @@ class SpecBuilder:
             status, note = "broken", join_notes(note, family.get("broken_note"))
         status = cap_status(status, family.get("status_at_best"))
         return self._family_spec(
-            family, name or family["name_format"].format(size=size), bits, status, size,
-            note, purpose, name_row, self.table.source(),
+            family,
+            name or family["name_format"].format(size=size),
+            bits,
+            status,
+            size,
+            note,
+            purpose,
+            name_row,
+            self.table.source(),
         )
 
     def on_curve(
-        self, family: Row, curve: Row, *, purpose: str | None = None, name_row: Row | None = None,
+        self,
+        family: Row,
+        curve: Row,
+        *,
+        purpose: str | None = None,
+        name_row: Row | None = None,
     ) -> AlgorithmSpec:
         """Spec of ECDSA or ECDH on ``curve`` (Edwards/Montgomery curves give their own entry)."""
         own = curve.get("signature" if family["family"] == "ECDSA" else "agreement")
@@ -118,13 +141,28 @@ class SpecBuilder:
         status, note = self.table.status(bits)
         status = cap_status(status, family.get("status_at_best"))
         return self._family_spec(
-            family, family["name_format"].format(curve=curve["name"]), bits, status,
-            curve["order_bits"], note, purpose, name_row, curve["source"],
+            family,
+            family["name_format"].format(curve=curve["name"]),
+            bits,
+            status,
+            curve["order_bits"],
+            note,
+            purpose,
+            name_row,
+            curve["source"],
         )
 
     def _family_spec(
-        self, family: Row, name: str, bits: int | None, status: str, problem_bits: int,
-        note: str, purpose: str | None, name_row: Row | None, extra_source: str,
+        self,
+        family: Row,
+        name: str,
+        bits: int | None,
+        status: str,
+        problem_bits: int,
+        note: str,
+        purpose: str | None,
+        name_row: Row | None,
+        extra_source: str,
     ) -> AlgorithmSpec:
         primitives = family["primitive"]
         wanted = (name_row or {}).get("purpose") or purpose
@@ -138,10 +176,15 @@ class SpecBuilder:
             sources.insert(0, name_row["source"])
             notes.append(name_row.get("notes"))
         return AlgorithmSpec(
-            name=name, family=family["family"], primitive=primitive, classical_bits=bits,
-            classical_status=status,  # type: ignore[arg-type]
-            quantum_attack=family["quantum"], source="; ".join(dict.fromkeys(sources)),
-            shor_problem=family.get("shor_problem"), problem_bits=problem_bits,
+            name=name,
+            family=family["family"],
+            primitive=primitive,
+            classical_bits=bits,
+            classical_status=cast(ClassicalStatus, status),
+            quantum_attack=family["quantum"],
+            source="; ".join(dict.fromkeys(sources)),
+            shor_problem=family.get("shor_problem"),
+            problem_bits=problem_bits,
             replacements=self.replacement_texts(family.get("replacements"), family["family"]),
             notes=join_notes(*notes),
         )
@@ -154,7 +197,7 @@ class SpecBuilder:
         return replace(
             spec,
             name=f"{spec.name} ({name_row['name']})" if at_best else spec.name,
-            classical_status=cap_status(spec.classical_status, at_best),  # type: ignore[arg-type]
+            classical_status=cast(ClassicalStatus, cap_status(spec.classical_status, at_best)),
             notes=join_notes(spec.notes, name_row.get("notes")),
             source=f"{name_row['source']}; {spec.source}",
         )
@@ -190,13 +233,22 @@ class SpecBuilder:
             cats = [c.spec.nist_category for c in components if c.spec.nist_category]
             category = category if category is not None else (max(cats) if cats else None)
         base = AlgorithmSpec(
-            name=row["name"], family=row["family"], primitive=row["primitive"],
-            classical_bits=bits, classical_status=row["status"], quantum_attack=row["quantum"],
-            source=row["source"], nist_category=category, shor_problem=row.get("shor_problem"),
-            problem_bits=row.get("problem_bits"), grover_target=row.get("grover_target"),
+            name=row["name"],
+            family=row["family"],
+            primitive=row["primitive"],
+            classical_bits=bits,
+            classical_status=row["status"],
+            quantum_attack=row["quantum"],
+            source=row["source"],
+            nist_category=category,
+            shor_problem=row.get("shor_problem"),
+            problem_bits=row.get("problem_bits"),
+            grover_target=row.get("grover_target"),
             replacements=self.replacement_texts(row["replacements"], label),
-            components=components, hybrid=bool(row.get("hybrid", False)),
-            notes=row.get("notes", ""), preimage_bits=row.get("preimage_bits"),
+            components=components,
+            hybrid=bool(row.get("hybrid", False)),
+            notes=row.get("notes", ""),
+            preimage_bits=row.get("preimage_bits"),
             preimage_category=row.get("preimage_category"),
             identifiers={str(k): str(v) for k, v in row.get("identifiers", {}).items()},
         )
@@ -208,19 +260,23 @@ class SpecBuilder:
         mode: dict[str, Any] | None = self.raw.modes.get(mode_name)
         if mode is None:
             self.fail(label, f"unknown mode '{mode_name}' (known: {', '.join(self.raw.modes)})")
-            raise AssertionError  # unreachable
         replacements = (
             self.replacement_texts(mode["replacements"], label)
-            if "replacements" in mode else base.replacements
+            if "replacements" in mode
+            else base.replacements
         )
         spec = replace(
-            base, name=f"{base.name}-{mode_name}", primitive=mode["primitive"],
-            classical_status=cap_status(base.classical_status, mode.get("status_at_best")),
-            notes=join_notes(mode.get("notes"), base.notes), replacements=replacements,
+            base,
+            name=f"{base.name}-{mode_name}",
+            primitive=mode["primitive"],
+            classical_status=cast(
+                ClassicalStatus, cap_status(base.classical_status, mode.get("status_at_best"))
+            ),
+            notes=join_notes(mode.get("notes"), base.notes),
+            replacements=replacements,
             source=f"{base.source}; {mode['source']}",
         )
         spellings = [f"{alias}-{mode_name}" for alias in row.get("aliases", [])]
         if mode.get("prefix"):
             spellings += [f"{mode['prefix']}-{n}" for n in (base.name, *row.get("aliases", []))]
         self._add(spec, spellings)
-

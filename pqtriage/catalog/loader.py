@@ -11,7 +11,7 @@ from __future__ import annotations
 from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import Any, NoReturn, cast
 
 import yaml
 
@@ -27,8 +27,19 @@ Row = dict[str, Any]
 
 PURPOSES = ("key-establishment", "encryption", "signature", "authentication", "integrity")
 PRIMITIVES = (
-    "signature", "kem", "key-agreement", "public-key-encryption", "block-cipher",
-    "stream-cipher", "aead", "hash", "mac", "xof", "kdf", "cipher-suite", "null-cipher",
+    "signature",
+    "kem",
+    "key-agreement",
+    "public-key-encryption",
+    "block-cipher",
+    "stream-cipher",
+    "aead",
+    "hash",
+    "mac",
+    "xof",
+    "kdf",
+    "cipher-suite",
+    "null-cipher",
 )
 SHOR_PROBLEMS = ("factoring", "finite-field-dlog", "elliptic-curve-dlog")
 GROVER_TARGETS = ("key-search", "preimage", "collision")
@@ -45,72 +56,152 @@ _BOOL = (bool,)
 Schema = Mapping[str, tuple[tuple[type, ...], bool]]
 
 STRENGTH_ROW: Schema = {
-    "bits": (_INT, True), "symmetric": (_STR, True), "ffc_l": (_INT, True), "ffc_n": (_INT, True),
-    "ifc": (_INT, True), "ecc": (_INT, True), "source": (_STR, True),
+    "bits": (_INT, True),
+    "symmetric": (_STR, True),
+    "ffc_l": (_INT, True),
+    "ffc_n": (_INT, True),
+    "ifc": (_INT, True),
+    "ecc": (_INT, True),
+    "source": (_STR, True),
 }
 STRENGTH_POLICY: Schema = {
-    "minimum_bits": (_INT, True), "below_minimum": (_STR, True), "below_minimum_note": (_STR, True),
-    "at_minimum_note": (_STR, True), "below_table_note": (_STR, True), "source": (_STR, True),
+    "minimum_bits": (_INT, True),
+    "below_minimum": (_STR, True),
+    "below_minimum_note": (_STR, True),
+    "at_minimum_note": (_STR, True),
+    "below_table_note": (_STR, True),
+    "source": (_STR, True),
 }
 CATEGORY_ROW: Schema = {
-    "category": (_INT, True), "reference": (_STR, True), "bits": (_INT, True), "source": (_STR, True),
+    "category": (_INT, True),
+    "reference": (_STR, True),
+    "bits": (_INT, True),
+    "source": (_STR, True),
 }
 MODE_ROW: Schema = {
-    "primitive": (_STR, True), "status_at_best": (_STR, False), "replacements": (_STR, False),
-    "notes": (_STR, False), "prefix": (_STR, False), "source": (_STR, True),
+    "primitive": (_STR, True),
+    "status_at_best": (_STR, False),
+    "replacements": (_STR, False),
+    "notes": (_STR, False),
+    "prefix": (_STR, False),
+    "source": (_STR, True),
 }
 FAMILY_ROW: Schema = {
-    "family": (_STR, True), "parameter": (_STR, True), "names": (_LIST, True),
-    "name_format": (_STR, False), "primitive": (_MAP, False), "quantum": (_STR, True),
-    "shor_problem": (_STR, False), "needs": (_STR, True), "broken_below": (_INT, False),
-    "broken_note": (_STR, False), "status_at_best": (_STR, False), "notes": (_STR, False),
-    "common_sizes": (_LIST, False), "sizes": (_LIST, False), "by_purpose": (_MAP, False),
-    "replacements": (_STR, False), "source": (_STR, True),
+    "family": (_STR, True),
+    "parameter": (_STR, True),
+    "names": (_LIST, True),
+    "name_format": (_STR, False),
+    "primitive": (_MAP, False),
+    "quantum": (_STR, True),
+    "shor_problem": (_STR, False),
+    "needs": (_STR, True),
+    "broken_below": (_INT, False),
+    "broken_note": (_STR, False),
+    "status_at_best": (_STR, False),
+    "notes": (_STR, False),
+    "common_sizes": (_LIST, False),
+    "sizes": (_LIST, False),
+    "by_purpose": (_MAP, False),
+    "replacements": (_STR, False),
+    "source": (_STR, True),
 }
 CURVE_ROW: Schema = {
-    "name": (_STR, True), "aliases": (_LIST, False), "order_bits": (_INT, True),
-    "field_bits": (_INT, False), "bits": (_INT, False), "signature": (_STR, False),
-    "agreement": (_STR, False), "source": (_STR, True),
+    "name": (_STR, True),
+    "aliases": (_LIST, False),
+    "order_bits": (_INT, True),
+    "field_bits": (_INT, False),
+    "bits": (_INT, False),
+    "signature": (_STR, False),
+    "agreement": (_STR, False),
+    "source": (_STR, True),
 }
 GROUP_ROW: Schema = {
-    "name": (_STR, True), "aliases": (_LIST, False), "p_bits": (_INT, True),
-    "notes": (_STR, False), "source": (_STR, True),
+    "name": (_STR, True),
+    "aliases": (_LIST, False),
+    "p_bits": (_INT, True),
+    "notes": (_STR, False),
+    "source": (_STR, True),
 }
 ENTRY_ROW: Schema = {
-    "name": (_STR, True), "aliases": (_LIST, False), "family": (_STR, True),
-    "primitive": (_STR, True), "bits": (_OPT_INT, False), "status": (_STR, True),
-    "quantum": (_STR, True), "shor_problem": (_STR, False), "problem_bits": (_OPT_INT, False),
-    "grover_target": ((str, type(None)), False), "nist_category": (_INT, False),
-    "preimage_bits": (_INT, False), "preimage_category": (_INT, False),
-    "replacements": (_STR, True), "components": (_LIST, False), "hybrid": (_BOOL, False),
-    "notes": (_STR, False), "source": (_STR, True), "identifiers": (_MAP, False),
+    "name": (_STR, True),
+    "aliases": (_LIST, False),
+    "family": (_STR, True),
+    "primitive": (_STR, True),
+    "bits": (_OPT_INT, False),
+    "status": (_STR, True),
+    "quantum": (_STR, True),
+    "shor_problem": (_STR, False),
+    "problem_bits": (_OPT_INT, False),
+    "grover_target": ((str, type(None)), False),
+    "nist_category": (_INT, False),
+    "preimage_bits": (_INT, False),
+    "preimage_category": (_INT, False),
+    "replacements": (_STR, True),
+    "components": (_LIST, False),
+    "hybrid": (_BOOL, False),
+    "notes": (_STR, False),
+    "source": (_STR, True),
+    "identifiers": (_MAP, False),
     "modes": (_LIST, False),
 }
 COMPONENT_ROW: Schema = {"purpose": (_STR, True), "ref": (_STR, True)}
 NAME_ROW: Schema = {
-    "name": (_STR, True), "aliases": (_LIST, False), "target": (_STR, False),
-    "family": (_STR, False), "curve": (_STR, False), "size": (_INT, False),
-    "purpose": (_STR, False), "status_at_best": (_STR, False), "notes": (_STR, False),
-    "needs": (_STR, False), "source": (_STR, True),
+    "name": (_STR, True),
+    "aliases": (_LIST, False),
+    "target": (_STR, False),
+    "family": (_STR, False),
+    "curve": (_STR, False),
+    "size": (_INT, False),
+    "purpose": (_STR, False),
+    "status_at_best": (_STR, False),
+    "notes": (_STR, False),
+    "needs": (_STR, False),
+    "source": (_STR, True),
 }
 KX_TOKEN: Schema = {
-    "kx": ((str, type(None)), True), "auth": ((str, type(None)), True),
-    "status_at_best": (_STR, False), "notes": (_STR, False),
+    "kx": ((str, type(None)), True),
+    "auth": ((str, type(None)), True),
+    "status_at_best": (_STR, False),
+    "notes": (_STR, False),
 }
-OPENSSL_CIPHER: Schema = {"iana": (_STR, True), "hash": (_STR, False), "hash_in_name": (_BOOL, False)}
+OPENSSL_CIPHER: Schema = {
+    "iana": (_STR, True),
+    "hash": (_STR, False),
+    "hash_in_name": (_BOOL, False),
+}
 TOP_LEVEL = (
-    "version", "strength_table", "strength_policy", "categories", "replacements", "modes",
-    "families", "curves", "groups", "entries", "names", "suite_tokens",
+    "version",
+    "strength_table",
+    "strength_policy",
+    "categories",
+    "replacements",
+    "modes",
+    "families",
+    "curves",
+    "groups",
+    "entries",
+    "names",
+    "suite_tokens",
 )
 SUITE_SECTIONS = (
-    "source", "key_exchange", "ciphers", "hashes", "openssl_key_exchange", "openssl_ciphers",
+    "source",
+    "key_exchange",
+    "ciphers",
+    "hashes",
+    "openssl_key_exchange",
+    "openssl_ciphers",
 )
 
 ENUMS: Mapping[str, tuple[str, ...]] = {
-    "status": CLASSICAL_STATUSES, "status_at_best": CLASSICAL_STATUSES,
-    "below_minimum": CLASSICAL_STATUSES, "quantum": QUANTUM_ATTACKS,
-    "shor_problem": SHOR_PROBLEMS, "grover_target": GROVER_TARGETS, "primitive": PRIMITIVES,
-    "purpose": PURPOSES, "parameter": PARAMETERS,
+    "status": CLASSICAL_STATUSES,
+    "status_at_best": CLASSICAL_STATUSES,
+    "below_minimum": CLASSICAL_STATUSES,
+    "quantum": QUANTUM_ATTACKS,
+    "shor_problem": SHOR_PROBLEMS,
+    "grover_target": GROVER_TARGETS,
+    "primitive": PRIMITIVES,
+    "purpose": PURPOSES,
+    "parameter": PARAMETERS,
 }
 
 
@@ -154,7 +245,9 @@ def read_catalog(path: Path) -> RawCatalog:
     try:
         text = path.read_text(encoding="utf-8")
     except OSError as error:
-        raise CatalogError(f"cannot read the catalog: {error.strerror}", place=Place(where)) from error
+        raise CatalogError(
+            f"cannot read the catalog: {error.strerror}", place=Place(where)
+        ) from error
     try:
         data = yaml.load(text, Loader=_Loader)  # noqa: S506 - a safe loader
     except yaml.YAMLError as error:
@@ -177,11 +270,18 @@ def read_catalog(path: Path) -> RawCatalog:
             merged = {**defaults, **row}
             entries.append(_row(merged, ENTRY_ROW, where, f"{label}.rows[{number}]"))
             for part in merged.get("components", []):
-                _row(part, COMPONENT_ROW, where, f"{label}.rows[{number}] ({merged['name']}) component")
+                _row(
+                    part,
+                    COMPONENT_ROW,
+                    where,
+                    f"{label}.rows[{number}] ({merged['name']}) component",
+                )
     return RawCatalog(
         path=where,
         strength_table=_rows(data, "strength_table", STRENGTH_ROW, where),
-        strength_policy=_row(data.get("strength_policy"), STRENGTH_POLICY, where, "strength_policy"),
+        strength_policy=_row(
+            data.get("strength_policy"), STRENGTH_POLICY, where, "strength_policy"
+        ),
         categories=_rows(data, "categories", CATEGORY_ROW, where),
         replacements=_replacements(data.get("replacements"), where),
         modes={
@@ -197,7 +297,7 @@ def read_catalog(path: Path) -> RawCatalog:
     )
 
 
-def _fail(where: str, label: str, message: str) -> None:
+def _fail(where: str, label: str, message: str) -> NoReturn:
     raise CatalogError(
         f"{label}: {message}",
         place=Place(where),
@@ -206,8 +306,11 @@ def _fail(where: str, label: str, message: str) -> None:
 
 
 def _keys(
-    row: Mapping[str, Any], allowed: tuple[str, ...] | Mapping[str, Any],
-    required: tuple[str, ...], where: str, label: str,
+    row: Mapping[str, Any],
+    allowed: tuple[str, ...] | Mapping[str, Any],
+    required: tuple[str, ...],
+    where: str,
+    label: str,
 ) -> None:
     for key in row:
         if key not in allowed:
@@ -233,9 +336,11 @@ def _row(row: Any, schema: Schema, where: str, label: str) -> Row:
         allowed = ENUMS.get(key)
         if allowed and isinstance(value, str) and value not in allowed:
             _fail(where, label, f"'{key}' is '{value}', not one of: {', '.join(allowed)}")
-        if key == "source" and not value.strip():
+        if key == "source" and not str(value).strip():
             _fail(where, label, "empty 'source': name the document by title and identifier")
-        if key in ("aliases", "names") and not all(isinstance(item, str) for item in value):
+        if key in ("aliases", "names") and not all(
+            isinstance(item, str) for item in cast(list[Any], value)
+        ):
             _fail(where, label, f"'{key}' must be a list of strings")
     return dict(row)
 

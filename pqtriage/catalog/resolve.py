@@ -57,7 +57,11 @@ class _Target:
     @property
     def identity(self) -> str:
         """Two spellings with the same identity name the same thing."""
-        return f"fixed:{self.spec.name}" if self.spec is not None else f"{self.kind}:{self.label}"
+        if self.spec is not None:
+            return f"fixed:{self.spec.name}"
+        return f"{self.kind}:{self.label}" + (
+            f" via {self.name_row['name']}" if self.name_row else ""
+        )
 
 
 class Catalog:
@@ -75,8 +79,13 @@ class Catalog:
 
     # -- public API -----------------------------------------------------------------------
     def resolve(
-        self, algorithm: str, *, key_size: int | None = None, curve: str | None = None,
-        parameter_set: str | None = None, purpose: str | None = None,
+        self,
+        algorithm: str,
+        *,
+        key_size: int | None = None,
+        curve: str | None = None,
+        parameter_set: str | None = None,
+        purpose: str | None = None,
     ) -> Resolution:
         """Resolve an algorithm as written in an input, with the use's parameters.
 
@@ -94,9 +103,14 @@ class Catalog:
         if not text:
             return Resolution(None, reason="no algorithm name given")
         use_purpose = _purpose(purpose)
-        if key_size is not None and (not isinstance(key_size, int) or isinstance(key_size, bool)
-                                     or not 0 < key_size <= MAX_KEY_BITS):
-            return Resolution(None, reason=f"key size {key_size!r} is not a plausible number of bits")
+        if key_size is not None and (
+            not isinstance(key_size, int)
+            or isinstance(key_size, bool)
+            or not 0 < key_size <= MAX_KEY_BITS
+        ):
+            return Resolution(
+                None, reason=f"key size {key_size!r} is not a plausible number of bits"
+            )
         target = self._target(text)
         if target is not None:
             return self._resolve_target(target, text, key_size, curve, parameter_set, use_purpose)
@@ -107,8 +121,9 @@ class Catalog:
         found = found or self._suites.resolve(text, key_size=key_size, curve=curve)
         if found is not None:
             return found
-        return Resolution(None, reason=f"'{text}' is not in the algorithm catalog",
-                          suggestions=self.suggest(text))
+        return Resolution(
+            None, reason=f"'{text}' is not in the algorithm catalog", suggestions=self.suggest(text)
+        )
 
     def suggest(self, name: str, limit: int = 3) -> tuple[str, ...]:
         """Up to ``limit`` known spellings close to ``name`` (difflib ratio), best first."""
@@ -116,7 +131,7 @@ class Catalog:
         return tuple(self._display[key] for key in keys)
 
     def specs(self) -> tuple[AlgorithmSpec, ...]:
-        """Every fixed-parameter entry (including RSA/DH/DSA at common sizes and ECDSA/ECDH per curve)."""
+        """Every fixed-parameter entry (RSA/DH/DSA at common sizes, ECDSA/ECDH per curve, ...)."""
         return tuple(self._builder.fixed.values())
 
     def spellings(self) -> tuple[str, ...]:
@@ -132,7 +147,11 @@ class Catalog:
         return target.spec
 
     def family_part(
-        self, family: str, key_size: int | None, curve: str | None, purpose: str,
+        self,
+        family: str,
+        key_size: int | None,
+        curve: str | None,
+        purpose: str,
     ) -> Resolution:
         """Resolve a family (RSA, FFDH, ECDH ...) with a use's parameters, for a composite."""
         row = self._builder.families[family]
@@ -148,9 +167,15 @@ class Catalog:
         for name, spec in builder.fixed.items():
             self._add([name, *builder.aliases.get(name, [])], _Target("fixed", name, spec=spec))
         for row in raw.curves:
-            self._add([row["name"], *row.get("aliases", [])], _Target("curve", row["name"], row=row))
-            for spelling in (row["name"], *row.get("aliases", []), row.get("signature"),
-                             row.get("agreement")):
+            self._add(
+                [row["name"], *row.get("aliases", [])], _Target("curve", row["name"], row=row)
+            )
+            for spelling in (
+                row["name"],
+                *row.get("aliases", []),
+                row.get("signature"),
+                row.get("agreement"),
+            ):
                 if spelling:
                     self._curves[loose_key(spelling)] = row
         for row in raw.families:
@@ -167,7 +192,6 @@ class Catalog:
         family = self._builder.families.get(row.get("family", ""))
         if family is None:
             self._builder.fail(label, "needs a 'target' entry or a known 'family'")
-            raise AssertionError  # unreachable
         if "size" in row:
             spec = self._builder.sized(family, row["size"], name_row=row)
             return _Target("fixed", row["name"], spec=spec)
@@ -175,8 +199,9 @@ class Catalog:
             curve = self._builder.curves.get(row["curve"])
             if curve is None:
                 self._builder.fail(label, f"unknown curve '{row['curve']}'")
-                raise AssertionError  # unreachable
-            return _Target("fixed", row["name"], spec=self._builder.on_curve(family, curve, name_row=row))
+            return _Target(
+                "fixed", row["name"], spec=self._builder.on_curve(family, curve, name_row=row)
+            )
         return _Target("family", row["name"], row=family, name_row=row)
 
     def _add(self, spellings: Iterable[str], target: _Target) -> None:
@@ -186,12 +211,15 @@ class Catalog:
             if known is not None and known.identity != target.identity:
                 raise CatalogError(
                     f"spelling '{spelling}' names both '{known.label}' and '{target.label}'",
-                    place=Place(self._path), hint="keep the spelling on one row only",
+                    place=Place(self._path),
+                    hint="keep the spelling on one row only",
                 )
             self._exact[key] = target
             loose = loose_key(spelling)
             other = self._loose.get(loose, target)
-            self._loose[loose] = target if other is not None and other.identity == target.identity else None
+            self._loose[loose] = (
+                target if other is not None and other.identity == target.identity else None
+            )
             self._display.setdefault(loose, spelling)
 
     def _target(self, text: str) -> _Target | None:
@@ -199,8 +227,13 @@ class Catalog:
 
     # -- resolution -----------------------------------------------------------------------
     def _resolve_target(
-        self, target: _Target, text: str, key_size: int | None, curve: str | None,
-        parameter_set: str | None, purpose: str | None,
+        self,
+        target: _Target,
+        text: str,
+        key_size: int | None,
+        curve: str | None,
+        parameter_set: str | None,
+        purpose: str | None,
     ) -> Resolution:
         if target.kind == "fixed":
             assert target.spec is not None
@@ -211,19 +244,35 @@ class Catalog:
         if target.kind == "keyed":
             param = parameter_set or (str(key_size) if key_size else None)
             found = self._keyed(loose_key(text), param)
-            return found or Resolution(None, reason=f"{target.label} needs {target.row['needs']}",
-                                       family=target.label, quantum_attack=target.row["quantum"])
-        return self._family(target.row, target.name_row, target.label, None, key_size, curve, purpose)
+            return found or Resolution(
+                None,
+                reason=f"{target.label} needs {target.row['needs']}",
+                family=target.label,
+                quantum_attack=target.row["quantum"],
+            )
+        return self._family(
+            target.row, target.name_row, target.label, None, key_size, curve, purpose
+        )
 
     def _family(
-        self, row: Row, name_row: Row | None, label: str, size: int | None,
-        key_size: int | None, curve: str | None, purpose: str | None,
+        self,
+        row: Row,
+        name_row: Row | None,
+        label: str,
+        size: int | None,
+        key_size: int | None,
+        curve: str | None,
+        purpose: str | None,
     ) -> Resolution:
         if "by_purpose" in row:  # EC keys: the purpose decides ECDSA or ECDH
             chosen = row["by_purpose"].get(purpose) or row["by_purpose"]["default"]
             row = self._builder.families[chosen]
-        unassessed = Resolution(None, reason=f"{label} needs {(name_row or {}).get('needs') or row['needs']}",
-                                family=row["family"], quantum_attack=row["quantum"])
+        unassessed = Resolution(
+            None,
+            reason=f"{label} needs {(name_row or {}).get('needs') or row['needs']}",
+            family=row["family"],
+            quantum_attack=row["quantum"],
+        )
         if row["parameter"] in ("ifc", "ffc"):
             if curve and row["family"] == "FFDH":
                 group = self._target(curve)
@@ -237,16 +286,27 @@ class Catalog:
             curve_row = self._curves.get(loose_key(curve))
             if curve_row is None:
                 close = difflib.get_close_matches(loose_key(curve), self._curves, n=3, cutoff=0.6)
-                return Resolution(None, reason=f"unknown curve '{curve}'", family=row["family"],
-                                  quantum_attack=row["quantum"],
-                                  suggestions=tuple(self._curves[k]["name"] for k in close))
-            return Resolution(self._builder.on_curve(row, curve_row, purpose=purpose, name_row=name_row))
+                return Resolution(
+                    None,
+                    reason=f"unknown curve '{curve}'",
+                    family=row["family"],
+                    quantum_attack=row["quantum"],
+                    suggestions=tuple(self._curves[k]["name"] for k in close),
+                )
+            return Resolution(
+                self._builder.on_curve(row, curve_row, purpose=purpose, name_row=name_row)
+            )
         if key_size is not None:
-            # Only the order size matters for Table 2; the first catalog curve of that size is named.
+            # Table 2 depends on the order size only; name the first catalog curve of that size.
             for curve_row in self._builder.curves.values():
                 if curve_row["order_bits"] == key_size and not curve_row.get("signature"):
-                    spec = self._builder.on_curve(row, curve_row, purpose=purpose, name_row=name_row)
-                    note = f"curve not given: {curve_row['name']} assumed from the {key_size}-bit key size"
+                    spec = self._builder.on_curve(
+                        row, curve_row, purpose=purpose, name_row=name_row
+                    )
+                    note = (
+                        f"curve not given: {curve_row['name']} assumed from the "
+                        f"{key_size}-bit key size"
+                    )
                     return Resolution(replace(spec, notes=join_notes(note, spec.notes)))
         return unassessed
 
@@ -256,7 +316,11 @@ class Catalog:
         return self._builder.on_curve(family, curve, purpose=purpose)
 
     def _with_size(
-        self, loose: str, key_size: int | None, curve: str | None, purpose: str | None,
+        self,
+        loose: str,
+        key_size: int | None,
+        curve: str | None,
+        purpose: str | None,
     ) -> Resolution | None:
         match = re.fullmatch(r"(.*?)([0-9]+)", loose)
         if not match:
@@ -268,7 +332,11 @@ class Catalog:
         if not 0 < size <= MAX_KEY_BITS:
             return Resolution(None, reason=f"key size {size} is not a plausible number of bits")
         row = target.row
-        chosen = row["by_purpose"].get(purpose) or row["by_purpose"]["default"] if "by_purpose" in row else None
+        chosen = (
+            row["by_purpose"].get(purpose) or row["by_purpose"]["default"]
+            if "by_purpose" in row
+            else None
+        )
         parameter = self._builder.families[chosen]["parameter"] if chosen else row["parameter"]
         if parameter == "curve":
             return self._family(row, target.name_row, target.label, None, size, None, purpose)
@@ -276,13 +344,25 @@ class Catalog:
 
     def _with_curve(self, loose: str, purpose: str | None) -> Resolution | None:
         for prefix, target in self._loose.items():
-            if (target is None or target.kind != "family" or target.row is None
-                    or not loose.startswith(prefix) or prefix == loose):
+            if (
+                target is None
+                or target.kind != "family"
+                or target.row is None
+                or not loose.startswith(prefix)
+                or prefix == loose
+            ):
                 continue
-            rest = loose[len(prefix):]
+            rest = loose[len(prefix) :]
             if rest in self._curves and (target.row["parameter"] == "curve"):
-                return self._family(target.row, target.name_row, target.label, None, None,
-                                    self._curves[rest]["name"], purpose)
+                return self._family(
+                    target.row,
+                    target.name_row,
+                    target.label,
+                    None,
+                    None,
+                    self._curves[rest]["name"],
+                    purpose,
+                )
         return None
 
     def _keyed(self, loose: str, param: str | None) -> Resolution | None:
@@ -290,20 +370,28 @@ class Catalog:
             if target is None or target.kind != "keyed" or not loose.startswith(prefix):
                 continue
             assert target.row is not None
-            rest = loose[len(prefix):]
+            rest = loose[len(prefix) :]
             sizes = [loose_key(str(size)) for size in target.row["sizes"]]
             known = [size for size in sizes if self._fixed_loose(prefix + size + rest)]
             if not known:
                 continue
             if param is None:
-                return Resolution(None, reason=f"{target.row['family']} needs {target.row['needs']}",
-                                  family=target.row["family"], quantum_attack=target.row["quantum"])
+                return Resolution(
+                    None,
+                    reason=f"{target.row['family']} needs {target.row['needs']}",
+                    family=target.row["family"],
+                    quantum_attack=target.row["quantum"],
+                )
             spec = self._fixed_loose(prefix + loose_key(param) + rest)
             if spec is not None:
                 return Resolution(spec)
-            return Resolution(None, reason=f"{target.row['family']} has no parameter set '{param}'"
-                              f" in the catalog (known: {', '.join(map(str, target.row['sizes']))})",
-                              family=target.row["family"], quantum_attack=target.row["quantum"])
+            return Resolution(
+                None,
+                reason=f"{target.row['family']} has no parameter set '{param}'"
+                f" in the catalog (known: {', '.join(map(str, target.row['sizes']))})",
+                family=target.row["family"],
+                quantum_attack=target.row["quantum"],
+            )
         return None
 
     def _fixed_loose(self, key: str) -> AlgorithmSpec | None:

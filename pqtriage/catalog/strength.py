@@ -26,7 +26,7 @@ class StrengthTable:
     """minimum_bits, below_minimum status and the notes to attach."""
 
     def bits(self, kind: str, size: int) -> int | None:
-        """Strength in bits of a ``kind`` (ifc, ffc, ecc) key of ``size`` bits, or None below the table."""
+        """Strength of a ``kind`` (ifc, ffc, ecc) key of ``size`` bits; None below the table."""
         column = COLUMNS[kind]
         strength: int | None = None
         # SP 800-57 Part 1 Rev. 5, Table 2: take the last row whose size is <= the given size.

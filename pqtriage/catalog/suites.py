@@ -18,9 +18,16 @@ the reason and the quantum attack class (Shor) still reported.
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING, Any, cast
 
-from pqtriage.catalog.spec import QUANTUM_ATTACKS, AlgorithmSpec, Component, Resolution
+from pqtriage.catalog.spec import (
+    QUANTUM_ATTACKS,
+    AlgorithmSpec,
+    ClassicalStatus,
+    Component,
+    QuantumAttack,
+    Resolution,
+)
 from pqtriage.catalog.strength import cap_status, join_notes, worst_status
 
 if TYPE_CHECKING:  # pragma: no cover
@@ -38,12 +45,19 @@ class SuiteParser:
     """Decomposes TLS cipher suite names using the catalog's token tables."""
 
     def __init__(self, tokens: dict[str, Any], catalog: Catalog, path: str) -> None:
-        self.tokens = tokens
+        # Suite names are matched in upper case (TLS_DH_anon_... is written with a lower-case part).
+        self.tokens = {
+            key: (
+                {str(k).upper(): v for k, v in value.items()} if isinstance(value, dict) else value
+            )
+            for key, value in tokens.items()
+        }
         self.catalog = catalog
         self.path = path
-        self._ciphers = sorted(tokens["ciphers"], key=len, reverse=True)
-        self._openssl_kx = sorted(tokens["openssl_key_exchange"], key=len, reverse=True)
-        self._openssl_ciphers = sorted(tokens["openssl_ciphers"], key=len, reverse=True)
+        self._kx_spelling = {str(token).upper(): str(token) for token in tokens["key_exchange"]}
+        self._ciphers = sorted(self.tokens["ciphers"], key=len, reverse=True)
+        self._openssl_kx = sorted(self.tokens["openssl_key_exchange"], key=len, reverse=True)
+        self._openssl_ciphers = sorted(self.tokens["openssl_ciphers"], key=len, reverse=True)
         # Every referenced entry must exist: a broken token table is a packaging bug.
         for name in (*tokens["ciphers"].values(), *tokens["hashes"].values()):
             catalog.fixed(name)
@@ -71,7 +85,7 @@ class SuiteParser:
             if body == cipher and kx is not None:
                 return kx, cipher, DEFAULT_PRF_HASH
             if body.startswith(cipher + "_"):
-                digest = body[len(cipher) + 1:]
+                digest = body[len(cipher) + 1 :]
                 if digest in self.tokens["hashes"]:
                     return kx, cipher, digest
         return None
@@ -81,25 +95,36 @@ class SuiteParser:
         for prefix in (*self._openssl_kx, ""):
             if prefix and not name.startswith(prefix + "-"):
                 continue
-            rest = name[len(prefix) + 1:] if prefix else name
+            rest = name[len(prefix) + 1 :] if prefix else name
             kx = self.tokens["openssl_key_exchange"][prefix] if prefix else "RSA"
             for cipher in self._openssl_ciphers:
                 row = self.tokens["openssl_ciphers"][cipher]
                 if rest == cipher and row.get("hash"):
                     digest, in_name = row["hash"], row.get("hash_in_name", True)
-                elif rest.startswith(cipher + "-") and rest[len(cipher) + 1:] in self.tokens["hashes"]:
-                    digest, in_name = rest[len(cipher) + 1:], True
+                elif (
+                    rest.startswith(cipher + "-")
+                    and rest[len(cipher) + 1 :] in self.tokens["hashes"]
+                ):
+                    digest, in_name = rest[len(cipher) + 1 :], True
                 else:
                     continue
                 name_hash = f"_{digest}" if in_name else ""
-                return f"TLS_{kx}_WITH_{row['iana']}{name_hash}"
+                return f"TLS_{kx}_WITH_{row['iana']}{name_hash}".upper()
         return None
 
     def _compose(
-        self, iana: str, kx: str | None, cipher: str, digest: str, *,
-        key_size: int | None, curve: str | None,
+        self,
+        iana: str,
+        kx: str | None,
+        cipher: str,
+        digest: str,
+        *,
+        key_size: int | None,
+        curve: str | None,
     ) -> Resolution:
         name = "TLS_" + iana[4:]
+        if kx:  # the registry's own spelling of the key exchange (TLS_DH_anon_...)
+            name = name.replace(f"TLS_{kx}_WITH_", f"TLS_{self._kx_spelling[kx]}_WITH_", 1)
         parts: list[Component] = []
         missing: list[str] = []
         quantum: list[str] = []
@@ -120,22 +145,31 @@ class SuiteParser:
         quantum += [part.spec.quantum_attack for part in parts]
         worst_quantum = min(quantum, key=QUANTUM_ATTACKS.index)  # shor > grover > none
         if missing:
-            return Resolution(None, reason=f"{name}: " + "; ".join(missing),
-                              family="TLS cipher suite", quantum_attack=worst_quantum)  # type: ignore[arg-type]
-        status = cap_status(worst_status(*(p.spec.classical_status for p in parts)),
-                            token.get("status_at_best"))
+            return Resolution(
+                None,
+                reason=f"{name}: " + "; ".join(missing),
+                family="TLS cipher suite",
+                quantum_attack=cast(QuantumAttack, worst_quantum),
+            )
+        status = cap_status(
+            worst_status(*(p.spec.classical_status for p in parts)), token.get("status_at_best")
+        )
         bits = [p.spec.classical_bits for p in parts if p.spec.classical_bits is not None]
         shor = next((p.spec for p in parts if p.spec.quantum_attack == "shor"), None)
-        return Resolution(AlgorithmSpec(
-            name=name, family="TLS cipher suite", primitive="cipher-suite",
-            classical_bits=min(bits) if bits else None,
-            classical_status=status,  # type: ignore[arg-type]
-            quantum_attack=worst_quantum,  # type: ignore[arg-type]
-            source=self.tokens["source"],
-            shor_problem=shor.shor_problem if shor else None,
-            problem_bits=shor.problem_bits if shor else None,
-            replacements=self.catalog.suite_replacements(),
-            components=tuple(parts),
-            notes=join_notes(TLS13_NOTE if kx is None else "", token.get("notes")),
-            identifiers={"iana": name},
-        ))
+        return Resolution(
+            AlgorithmSpec(
+                name=name,
+                family="TLS cipher suite",
+                primitive="cipher-suite",
+                classical_bits=min(bits) if bits else None,
+                classical_status=cast(ClassicalStatus, status),
+                quantum_attack=cast(QuantumAttack, worst_quantum),
+                source=str(self.tokens["source"]),
+                shor_problem=shor.shor_problem if shor else None,
+                problem_bits=shor.problem_bits if shor else None,
+                replacements=self.catalog.suite_replacements(),
+                components=tuple(parts),
+                notes=join_notes(TLS13_NOTE if kx is None else "", token.get("notes")),
+                identifiers={"iana": name},
+            )
+        )

@@ -11,7 +11,12 @@ from tests.catalog.catalog_vectors import vectors
 
 CATEGORIES = vectors("nist_categories.yaml")
 IDS = vectors("identifiers.yaml")
-PQ = {**CATEGORIES["fips203"], **CATEGORIES["fips204"], **CATEGORIES["fips205"], **CATEGORIES["sp800_208"]}
+PQ = {
+    **CATEGORIES["fips203"],
+    **CATEGORIES["fips204"],
+    **CATEGORIES["fips205"],
+    **CATEGORIES["sp800_208"],
+}
 
 
 @pytest.mark.parametrize(("name", "category"), sorted(PQ.items()))
@@ -21,14 +26,22 @@ def test_post_quantum_categories(catalog: Catalog, name: str, category: int) -> 
     assert spec is not None and spec.name == name
     assert spec.nist_category == category
     assert spec.quantum_attack == "none"
-    assert spec.replacement_for("signature") is None and spec.replacement_for("key-establishment") is None
+    assert (
+        spec.replacement_for("signature") is None
+        and spec.replacement_for("key-establishment") is None
+    )
 
 
 @pytest.mark.parametrize(("name", "category"), sorted(PQ.items()))
-def test_pq_classical_bits_follow_the_category_reference(catalog: Catalog, name: str, category: int) -> None:
+def test_pq_classical_bits_follow_the_category_reference(
+    catalog: Catalog, name: str, category: int
+) -> None:
     # Rule: the classical cost of the category's reference attack (NIST PQC CfP 2016 §4.A.5):
     # 1 AES-128 -> 128, 2 SHA-256 collision -> 128, 3 AES-192 -> 192, 5 AES-256 -> 256.
-    assert catalog.resolve(name).spec.classical_bits == {1: 128, 2: 128, 3: 192, 4: 192, 5: 256}[category]
+    assert (
+        catalog.resolve(name).spec.classical_bits
+        == {1: 128, 2: 128, 3: 192, 4: 192, 5: 256}[category]
+    )
 
 
 def test_stateful_schemes_say_firmware_only(catalog: Catalog) -> None:
@@ -53,7 +66,8 @@ def test_hash_categories_ir8547_table7(catalog: Catalog, name: str, cats: dict) 
 
 
 @pytest.mark.parametrize(
-    "name", ["SHA-224", "SHA-256", "SHA-384", "SHA-512", "SHA3-224", "SHA3-256", "SHA3-384", "SHA3-512"],
+    "name",
+    ["SHA-224", "SHA-256", "SHA-384", "SHA-512", "SHA3-224", "SHA3-256", "SHA3-384", "SHA3-512"],
 )
 def test_hash_strength_is_half_the_output(catalog: Catalog, name: str) -> None:
     # Output length from hashlib (a reference implementation); collision = half of it,
@@ -95,14 +109,19 @@ def test_tls_signature_schemes(catalog: Catalog, name: str, code: str) -> None:
 
 @pytest.mark.parametrize(
     ("name", "parts"),
-    [("X25519MLKEM768", ["X25519", "ML-KEM-768"]), ("SecP256r1MLKEM768", ["ECDH P-256", "ML-KEM-768"]),
-     ("SecP384r1MLKEM1024", ["ECDH P-384", "ML-KEM-1024"]), ("X25519Kyber768Draft00", ["X25519", "ML-KEM-768"]),
-     ("sntrup761x25519-sha512", ["X25519", "sntrup761"]),
-     ("sntrup761x25519-sha512@openssh.com", ["X25519", "sntrup761"]),
-     ("mlkem768x25519-sha256", ["X25519", "ML-KEM-768"])],
+    [
+        ("X25519MLKEM768", ["X25519", "ML-KEM-768"]),
+        ("SecP256r1MLKEM768", ["ECDH P-256", "ML-KEM-768"]),
+        ("SecP384r1MLKEM1024", ["ECDH P-384", "ML-KEM-1024"]),
+        ("X25519Kyber768Draft00", ["X25519", "ML-KEM-768"]),
+        ("sntrup761x25519-sha512", ["X25519", "sntrup761"]),
+        ("sntrup761x25519-sha512@openssh.com", ["X25519", "sntrup761"]),
+        ("mlkem768x25519-sha256", ["X25519", "ML-KEM-768"]),
+    ],
 )
 def test_hybrids(catalog: Catalog, name: str, parts: list[str]) -> None:
-    # published-figures.md §7: RFC 9941, draft-ietf-tls-ecdhe-mlkem, draft-ietf-sshm-mlkem-hybrid-kex.
+    # published-figures.md §7: RFC 9941, draft-ietf-tls-ecdhe-mlkem,
+    # draft-ietf-sshm-mlkem-hybrid-kex.
     spec = catalog.resolve(name).spec
     assert spec.hybrid and spec.quantum_attack == "none"
     assert [c.spec.name for c in spec.components] == parts

@@ -11,12 +11,17 @@ NOT_ACCEPTABLE = ("broken", "weak")
 
 @pytest.mark.parametrize(
     ("name", "status"),
-    [("MD5", "broken"),  # RFC 6151: collisions are practical
-     ("SHA-1", "broken"),  # practical collisions; SP 800-131A Rev. 2 §9: disallowed for signatures
-     ("RC4", "broken"),  # RFC 7465 prohibits RC4 in TLS
-     ("DES", "broken"),  # 56-bit key, FIPS 46-3 withdrawn
-     ("2TDEA", "weak"),  # 80 bits, disallowed (SP 800-131A Rev. 2 §2)
-     ("NULL", "broken")],
+    [
+        ("MD5", "broken"),  # RFC 6151: collisions are practical
+        (
+            "SHA-1",
+            "broken",
+        ),  # practical collisions; SP 800-131A Rev. 2 §9: disallowed for signatures
+        ("RC4", "broken"),  # RFC 7465 prohibits RC4 in TLS
+        ("DES", "broken"),  # 56-bit key, FIPS 46-3 withdrawn
+        ("2TDEA", "weak"),  # 80 bits, disallowed (SP 800-131A Rev. 2 §2)
+        ("NULL", "broken"),
+    ],
 )
 def test_not_acceptable_algorithms(catalog: Catalog, name: str, status: str) -> None:
     assert catalog.resolve(name).spec.classical_status == status
@@ -45,8 +50,13 @@ def test_3tdea_is_legacy_not_for_new_protection(catalog: Catalog) -> None:
 
 def test_sha1_in_signatures_is_not_acceptable_but_hmac_sha1_is(catalog: Catalog) -> None:
     assert catalog.resolve("ssh-rsa", key_size=3072).spec.classical_status in NOT_ACCEPTABLE
-    assert catalog.resolve("sha1WithRSAEncryption", key_size=3072).spec.classical_status in NOT_ACCEPTABLE
-    assert catalog.resolve("HMAC-SHA1").spec.classical_status == "acceptable"  # SP 800-131A Rev. 2 §10
+    assert (
+        catalog.resolve("sha1WithRSAEncryption", key_size=3072).spec.classical_status
+        in NOT_ACCEPTABLE
+    )
+    assert (
+        catalog.resolve("HMAC-SHA1").spec.classical_status == "acceptable"
+    )  # SP 800-131A Rev. 2 §10
 
 
 def test_small_groups_and_curves(catalog: Catalog) -> None:
@@ -66,14 +76,18 @@ def test_every_spec_status_quantum_and_source(catalog: Catalog) -> None:
         assert spec.source.strip(), spec.name
         if spec.quantum_attack == "shor":
             assert spec.shor_problem and spec.problem_bits, spec.name
-            assert spec.replacement_for("signature") and spec.replacement_for("key-establishment"), spec.name
+            assert spec.replacement_for("signature") and spec.replacement_for(
+                "key-establishment"
+            ), spec.name
         if spec.quantum_attack == "grover":
             assert spec.grover_target, spec.name
 
 
 def test_replacement_texts_per_purpose(catalog: Catalog) -> None:
     rsa = catalog.resolve("RSA", key_size=2048).spec
-    assert rsa.replacement_for("key-establishment") == "ML-KEM-768 (FIPS 203) or hybrid X25519MLKEM768"
+    assert (
+        rsa.replacement_for("key-establishment") == "ML-KEM-768 (FIPS 203) or hybrid X25519MLKEM768"
+    )
     assert rsa.replacement_for("signature").startswith("ML-DSA-65 (FIPS 204) or SLH-DSA (FIPS 205)")
     assert "SHA-384" in catalog.resolve("SHA-256").spec.replacement_for("integrity")
     assert "AES-256" in catalog.resolve("AES-128-GCM").spec.replacement_for("encryption")

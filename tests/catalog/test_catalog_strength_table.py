@@ -32,7 +32,9 @@ def test_every_table_row_symmetric(catalog: Catalog, row: dict) -> None:
     assert catalog.resolve(row["symmetric"]).spec.classical_bits == row["bits"]
 
 
-@pytest.mark.parametrize("case", TABLE["between"], ids=lambda c: f"{c['algorithm']}-{c['key_size']}")
+@pytest.mark.parametrize(
+    "case", TABLE["between"], ids=lambda c: f"{c['algorithm']}-{c['key_size']}"
+)
 def test_sizes_between_rows_take_the_lower_row(catalog: Catalog, case: dict) -> None:
     spec = catalog.resolve(case["algorithm"], key_size=case["key_size"]).spec
     assert spec is not None and spec.classical_bits == case["bits"]
@@ -40,9 +42,17 @@ def test_sizes_between_rows_take_the_lower_row(catalog: Catalog, case: dict) -> 
 
 @pytest.mark.parametrize(
     ("curve", "bits"),
-    [("P-192", 80), ("P-224", 112), ("P-256", 128), ("P-384", 192), ("P-521", 256),
-     ("brainpoolP256r1", 128), ("brainpoolP384r1", 192), ("brainpoolP512r1", 256),
-     ("secp256k1", 128)],
+    [
+        ("P-192", 80),
+        ("P-224", 112),
+        ("P-256", 128),
+        ("P-384", 192),
+        ("P-521", 256),
+        ("brainpoolP256r1", 128),
+        ("brainpoolP384r1", 192),
+        ("brainpoolP512r1", 256),
+        ("secp256k1", 128),
+    ],
 )
 def test_named_curves_by_order_bits(catalog: Catalog, curve: str, bits: int) -> None:
     # Table 2 ECC column, f = order bits (P-521: 521 >= 512 -> 256).
@@ -62,7 +72,11 @@ def test_edwards_and_montgomery_curves_take_their_stated_strength(catalog: Catal
 
 def test_rsa_problem_bits_is_the_modulus_and_shor_factoring(catalog: Catalog) -> None:
     spec = catalog.resolve("RSA", key_size=3072).spec
-    assert (spec.shor_problem, spec.problem_bits, spec.quantum_attack) == ("factoring", 3072, "shor")
+    assert (spec.shor_problem, spec.problem_bits, spec.quantum_attack) == (
+        "factoring",
+        3072,
+        "shor",
+    )
     dh = catalog.resolve("ffdhe4096").spec
     assert (dh.shor_problem, dh.problem_bits, dh.classical_bits) == ("finite-field-dlog", 4096, 128)
 
