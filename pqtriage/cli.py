@@ -10,7 +10,7 @@ from __future__ import annotations
 import os
 import sys
 from enum import Enum
-from typing import Any, Optional
+from typing import Any, List, Optional
 
 import click
 import typer
@@ -143,18 +143,38 @@ def triage_command(
 @app.command("report")
 def report_command(
     inventory: str = typer.Argument(..., help="Inventory file (pqtriage YAML or CycloneDX JSON)."),
-    output: Optional[str] = typer.Option(None, "--output", "-o", help="Markdown file to write (stdout if absent)."),
+    output: Optional[str] = typer.Option(None, "--output", "-o", help="Markdown file to write (stdout if absent); the timeline chart goes beside it as NAME-timeline.svg."),
     profile: Optional[str] = typer.Option(None, "--profile", help=PROFILE_HELP),
     as_of: Optional[str] = typer.Option(None, "--as-of", help=AS_OF_HELP),
+    policy: Optional[List[str]] = typer.Option(None, "--policy", help="Policy timeline for the plan section (repeatable); added to those the inventory names."),
+    capacity: Optional[str] = typer.Option(None, "--capacity", help="Plan capacity: migrations in parallel (3), person-weeks per quarter (40pw), or both."),
     fail_on: Optional[VerdictChoice] = typer.Option(None, "--fail-on", help="Exit 1 if any system is at or above this verdict."),
 ) -> None:
-    """Write the Markdown report for the compliance file."""
-    from pqtriage.formats.markdown import render_report
-    from pqtriage.formats.table import summary_block
-    from pqtriage.pipeline import parse_as_of, run_triage
+    """Write the Markdown report for the compliance file (ranking, plan, sensitivity)."""
+    from pathlib import Path
 
-    result = run_triage(inventory, profile, parse_as_of(as_of))
-    _emit(render_report(result), output)
+    from pqtriage.commands.plan import chart_path_for
+    from pqtriage.formats.markdown import render_report
+    from pqtriage.formats.sensitivity_view import sensitivity_markdown
+    from pqtriage.formats.table import summary_block
+    from pqtriage.pipeline import parse_as_of, prepare
+    from pqtriage.plan.markdown import plan_section
+    from pqtriage.plan.svg import plan_svg
+
+    run = prepare(inventory, profile, parse_as_of(as_of))
+    result = run.result
+    the_plan = run.plan(tuple(policy or ()), capacity)
+    to_file = bool(output and output != "-")
+    chart = chart_path_for(output) if to_file and output else None
+    sections = [
+        plan_section(the_plan, Path(chart).name if chart else None),
+        sensitivity_markdown(run.sensitivity()),
+    ]
+    if chart:
+        from pqtriage.output import write_atomic
+
+        write_atomic(chart, plan_svg(the_plan))
+    _emit(render_report(result, sections), output)
     _console(stderr=True).print(summary_block(result))
     raise typer.Exit(_fail_code(result, fail_on))
 

@@ -7,6 +7,8 @@ the sources; the model stays pure.
 from __future__ import annotations
 
 import datetime as dt
+from dataclasses import dataclass
+from typing import Any
 
 from pqtriage.errors import UsageError
 from pqtriage.model.arrival import ArrivalModel, SharedArrival
@@ -36,10 +38,48 @@ def arrival_model_for(profile: ThreatProfile) -> ArrivalModel:
 
 def run_triage(inventory_path: str, profile_name: str | None, as_of: dt.date) -> TriageResult:
     """Load the inventory and profile, then triage."""
+    return prepare(inventory_path, profile_name, as_of).result
+
+
+@dataclass(frozen=True)
+class TriageRun:
+    """A triage result with the parts that produced it (for sensitivity and planning)."""
+
+    result: TriageResult
+    """The ranked result."""
+    catalog: Any
+    """The catalog used."""
+    arrival: ArrivalModel
+    """The arrival model used."""
+
+    def sensitivity(self, shifts: tuple[int, ...] | None = None) -> Any:
+        """Which systems change verdict if the CRQC arrives earlier or later."""
+        from pqtriage.model.sensitivity import DEFAULT_SHIFTS, sensitivity
+
+        r = self.result
+        return sensitivity(r, r.inventory, self.catalog, r.profile, self.arrival, r.as_of,
+                           shifts or DEFAULT_SHIFTS)
+
+    def plan(self, policy_ids: tuple[str, ...] = (), capacity: str | None = None) -> Any:
+        """Build the migration plan for this result."""
+        from pqtriage.plan.candidates import candidates_from_triage
+        from pqtriage.plan.command import parse_capacity
+        from pqtriage.plan.planner import DEFAULT_SETTINGS, build_plan
+        from pqtriage.plan.policies import select_policies
+
+        policies = select_policies(policy_ids, self.result.inventory.policies)
+        return build_plan(candidates_from_triage(self.result), self.result.as_of, policies,
+                          parse_capacity(capacity), DEFAULT_SETTINGS)
+
+
+def prepare(inventory_path: str, profile_name: str | None, as_of: dt.date) -> TriageRun:
+    """Load the inventory and profile, triage, and keep the parts."""
     from pqtriage.catalog import load_catalog
     from pqtriage.sources.loading import load_inventory
     from pqtriage.sources.profile_file import load_profile
 
     inventory = load_inventory(inventory_path)
     profile = load_profile(profile_name)
-    return triage(inventory, load_catalog(), profile, arrival_model_for(profile), as_of)
+    catalog = load_catalog()
+    arrival = arrival_model_for(profile)
+    return TriageRun(triage(inventory, catalog, profile, arrival, as_of), catalog, arrival)

@@ -1,0 +1,42 @@
+"""From a triage result to planning candidates: the seam between triage and plan."""
+
+from __future__ import annotations
+
+from pqtriage.model.verdict import TriageResult
+from pqtriage.plan.inputs import PlanCandidate, PlanUse
+
+
+def candidates_from_triage(result: TriageResult) -> tuple[PlanCandidate, ...]:
+    """One candidate per ranked system; dependencies outside the inventory are dropped
+    from scheduling (they are reported as inventory warnings)."""
+    known = {item.system.id for item in result.items}
+    candidates = []
+    for item in result.items:
+        system = item.system
+        uses = []
+        for use in item.uses:
+            spec = use.deciding or use.spec
+            uses.append(PlanUse(
+                purpose=use.use.purpose.value,
+                algorithm=spec.name if spec else use.use.algorithm,
+                classical_bits=spec.classical_bits if spec else None,
+                quantum_attack=spec.quantum_attack if spec else None,
+                primitive=spec.primitive if spec else None,
+                assessed=spec is not None,
+                reason=None if spec is not None else use.reason,
+            ))
+        candidates.append(PlanCandidate(
+            id=system.id,
+            name=system.name,
+            priority_rank=item.rank,
+            migration_years=system.migration_years,
+            depends_on=tuple(d for d in system.depends_on if d in known),
+            start_by=item.start_by,
+            effort_person_weeks=system.effort_person_weeks,
+            vendor_readiness=system.vendor_readiness,  # type: ignore[arg-type]
+            policy_category=system.policy_category,
+            verdict=item.verdict.value,
+            uses=tuple(uses),
+            criticality=system.criticality.value,
+        ))
+    return tuple(candidates)
