@@ -1,0 +1,1 @@
+"""Command implementations as plain functions; pqtriage.cli wires them into typer."""
