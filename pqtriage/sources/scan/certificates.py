@@ -13,6 +13,7 @@ The certificate's signature algorithm (the issuer's signature) is always purpose
 
 from __future__ import annotations
 
+import warnings
 from dataclasses import dataclass
 
 from cryptography import x509
@@ -34,6 +35,12 @@ from cryptography.x509.oid import ExtendedKeyUsageOID
 from pqtriage.model.inventory import Purpose, SourceRef
 from pqtriage.sources.scan.findings import Finding, FindingKind
 from pqtriage.sources.scan.identifiers import identifiers
+
+with warnings.catch_warnings():
+    # Naming the classes is not using FFDH; the library warns on first access.
+    warnings.simplefilter("ignore")
+    _DH_KEYS = (dh.DHPublicKey, dh.DHPrivateKey)
+    DH_PARAMETERS = dh.DHParameters
 
 #: cryptography's curve names (SEC 2) -> the NIST names of FIPS 186-5 where they exist.
 _CURVES = {
@@ -72,7 +79,7 @@ def key_facts(key: object) -> KeyFacts | None:
         return KeyFacts("ECDSA", key_size=key.curve.key_size, curve=curve_name(key.curve))
     if isinstance(key, dsa.DSAPublicKey | dsa.DSAPrivateKey):
         return KeyFacts("DSA", key_size=key.key_size)
-    if isinstance(key, dh.DHPublicKey | dh.DHPrivateKey):
+    if isinstance(key, _DH_KEYS):
         return KeyFacts("DH", key_size=key.key_size)
     if isinstance(key, ed25519.Ed25519PublicKey | ed25519.Ed25519PrivateKey):
         return KeyFacts("Ed25519")

@@ -14,11 +14,15 @@ import re
 from cryptography import x509
 from cryptography.exceptions import UnsupportedAlgorithm
 from cryptography.hazmat.primitives import serialization
-from cryptography.hazmat.primitives.asymmetric import dh
 from cryptography.hazmat.primitives.serialization import pkcs7
 
 from pqtriage.model.inventory import Purpose, SourceRef
-from pqtriage.sources.scan.certificates import describe_certificate, describe_csr, describe_key
+from pqtriage.sources.scan.certificates import (
+    DH_PARAMETERS,
+    describe_certificate,
+    describe_csr,
+    describe_key,
+)
 from pqtriage.sources.scan.der import (
     der_total_length,
     encrypted_private_key,
@@ -149,7 +153,7 @@ def _block(
             parameters = serialization.load_pem_parameters(block_text)
         except _PARSE_ERRORS:
             raise corrupt from None
-        if not isinstance(parameters, dh.DHParameters):
+        if not isinstance(parameters, DH_PARAMETERS):
             return []
         return [
             Finding(

@@ -74,7 +74,8 @@ def _visit(
             yield ScanProblem(path, ProblemKind.UNREADABLE, error.strerror or "cannot list folder")
             return
         for name in names:
-            yield from _visit(os.path.join(path, name), max_file_bytes, seen_dirs, seen_files)
+            child = name if path == os.curdir else os.path.join(path, name)
+            yield from _visit(child, max_file_bytes, seen_dirs, seen_files)
         return
     if not stat.S_ISREG(info.st_mode):
         yield ScanProblem(path, ProblemKind.SKIPPED, f"special file ({_kind(info.st_mode)})")
