@@ -35,6 +35,7 @@ class _Reader:
         self.sock = sock
         self.deadline = deadline
         self.buffer = b""
+        self.received = 0
 
     def _fill(self) -> None:
         remaining = self.deadline - time.monotonic()
@@ -46,9 +47,12 @@ class _Reader:
         except TimeoutError:
             raise ProbeFailure("timed out waiting for the SSH server") from None
         except OSError as error:
+            if self.received:
+                raise ProbeFailure("not SSH (the server sent no SSH identification)") from None
             raise ProbeFailure(f"connection failed ({error.strerror or 'reset'})") from None
         if not chunk:
             raise ProbeFailure("not SSH (connection closed before a KEXINIT)")
+        self.received += len(chunk)
         self.buffer += chunk
 
     def line(self) -> bytes:
