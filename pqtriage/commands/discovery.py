@@ -99,7 +99,9 @@ def _load_existing(merge: str) -> Any:
     except yaml.YAMLError as error:
         mark = getattr(error, "problem_mark", None)
         place = Place(merge, mark.line + 1, mark.column + 1) if mark else Place(merge)
-        raise InventoryError("the inventory to merge into is not valid YAML", place=place) from error
+        raise InventoryError(
+            "the inventory to merge into is not valid YAML", place=place
+        ) from error
     if document is None:
         document = {"version": 1, "organization": DEFAULT_ORGANIZATION, "systems": []}
     return document
@@ -143,7 +145,9 @@ def _finish(
     system_extras: dict[str, dict[str, Any]] | None = None,
 ) -> CommandResult:
     groups = group_findings(findings, group_by)
-    document = inventory_dict(groups, organization, shelf_life_years, migration_years, system_extras)
+    document = inventory_dict(
+        groups, organization, shelf_life_years, migration_years, system_extras
+    )
     summary.append(f"{len(findings)} uses in {len(groups)} systems (grouped by {group_by.value})")
     if groups:
         summary.append(_assumed_line(len(groups), shelf_life_years, migration_years))
@@ -204,8 +208,10 @@ def scan_command(
     with _progress(len(entries), progress) as advance:
         result = scan_entries(entries, walk_problems, password, max_file_bytes, advance)
     summary = [
-        f"scan: {result.files_read} files read, {result.files_with_material} with key or "
-        f"certificate material"
+        (
+            f"scan: {result.files_read} files read, {result.files_with_material} with key or "
+            "certificate material"
+        )
     ]
     summary.extend(problem.line() for problem in result.problems)
     summary.extend(_problem_counts(result.problems))

@@ -84,9 +84,11 @@ def certificate(
         builder = builder.add_extension(
             x509.KeyUsage(True, False, True, False, False, False, False, False, False), True
         )
-        eku = [ExtendedKeyUsageOID.CODE_SIGNING] if code_signing else [
-            ExtendedKeyUsageOID.SERVER_AUTH
-        ]
+        eku = (
+            [ExtendedKeyUsageOID.CODE_SIGNING]
+            if code_signing
+            else [ExtendedKeyUsageOID.SERVER_AUTH]
+        )
         builder = builder.add_extension(x509.ExtendedKeyUsage(eku), False)
     if dns:
         builder = builder.add_extension(
@@ -141,9 +143,11 @@ def public_pem(key: Any) -> bytes:
 
 def ssh_public_line(key: Any, comment: str = "") -> str:
     """OpenSSH one-line public key."""
-    line = key.public_key().public_bytes(
-        serialization.Encoding.OpenSSH, serialization.PublicFormat.OpenSSH
-    ).decode()
+    line = (
+        key.public_key()
+        .public_bytes(serialization.Encoding.OpenSSH, serialization.PublicFormat.OpenSSH)
+        .decode()
+    )
     return f"{line} {comment}".rstrip()
 
 

@@ -78,7 +78,7 @@ def read_identification(reader: _Reader) -> str:
         line = reader.line()
         if line.startswith(b"SSH-"):
             text = line.decode("ascii", "replace")
-            if not (text.startswith("SSH-2.0-") or text.startswith("SSH-1.99-")):
+            if not text.startswith(("SSH-2.0-", "SSH-1.99-")):
                 raise ProbeFailure(f"SSH server speaks an unsupported version ({text[:40]})")
             return text
     raise ProbeFailure("not SSH (no identification line)")

@@ -8,6 +8,7 @@ chain is not verified: the probe inventories what is offered, it does not decide
 
 from __future__ import annotations
 
+import dataclasses
 import select
 import socket
 import time
@@ -78,7 +79,9 @@ def probe_tls(target: Target, timeout: float) -> ProbeOutcome:
         except ProbeFailure as failure:
             return ProbeOutcome(target.text, failure=str(failure))
         except SSL.Error as error:
-            return ProbeOutcome(target.text, failure=f"not TLS (handshake failed: {_reason(error)})")
+            return ProbeOutcome(
+                target.text, failure=f"not TLS (handshake failed: {_reason(error)})"
+            )
         return _describe(target, connection)
     finally:
         sock.close()
@@ -144,6 +147,4 @@ def _describe(target: Target, connection: SSL.Connection) -> ProbeOutcome:
 
 
 def _at_target(finding: Finding, target: str) -> Finding:
-    import dataclasses
-
     return dataclasses.replace(finding, host=target)

@@ -96,11 +96,11 @@ def key_facts(key: object) -> KeyFacts | None:
     ):
         if isinstance(key, public | private):
             return KeyFacts(f"ML-DSA-{size}", parameter_set=size)
-    for size, public, private in (
+    for size, kem_public, kem_private in (
         ("768", mlkem.MLKEM768PublicKey, mlkem.MLKEM768PrivateKey),
         ("1024", mlkem.MLKEM1024PublicKey, mlkem.MLKEM1024PrivateKey),
     ):
-        if isinstance(key, public | private):
+        if isinstance(key, kem_public | kem_private):
             return KeyFacts(f"ML-KEM-{size}", parameter_set=size)
     return None
 

@@ -55,9 +55,7 @@ def looks_like_der(data: bytes) -> bool:
     return data[total:].strip(b"\r\n") == b""
 
 
-def parse_der_object(
-    der: bytes, source: SourceRef, password: bytes | None
-) -> list[Finding] | None:
+def parse_der_object(der: bytes, source: SourceRef, password: bytes | None) -> list[Finding] | None:
     """Try each DER structure in turn; return its findings, or None if none parses."""
     try:
         return describe_certificate(x509.load_der_x509_certificate(der), source)
@@ -85,7 +83,9 @@ def pkcs7_findings(certificates: list[x509.Certificate], source: SourceRef) -> l
     findings: list[Finding] = []
     for index, cert in enumerate(certificates, start=1):
         detail = f"{source.detail}.cert{index}" if source.detail else f"cert{index}"
-        findings.extend(describe_certificate(cert, SourceRef(source.file, source.line, None, detail)))
+        findings.extend(
+            describe_certificate(cert, SourceRef(source.file, source.line, None, detail))
+        )
     return findings
 
 

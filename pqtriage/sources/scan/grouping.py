@@ -65,5 +65,7 @@ def group_findings(findings: list[Finding] | tuple[Finding, ...], rule: GroupBy)
         buckets.setdefault(group_key(finding, rule), []).append(finding)
     return [
         Group(key=key, label=label, findings=tuple(items))
-        for (label, key), items in sorted(buckets.items(), key=lambda item: (item[0][1], item[0][0]))
+        for (label, key), items in sorted(
+            buckets.items(), key=lambda item: (item[0][1], item[0][0])
+        )
     ]

@@ -103,7 +103,7 @@ def _name_rows(rows: Any, section: str) -> frozenset[str]:
 def identifiers() -> Identifiers:
     """Return the identifier tables, loading and validating them on first use."""
     text = resources.files("pqtriage").joinpath("data", _FILE).read_text(encoding="utf-8")
-    data = yaml.load(text, Loader=_Loader)  # noqa: S506 - a safe loader, see above
+    data = yaml.load(text, Loader=_Loader)
     if not isinstance(data, dict) or set(data) != set(_SECTIONS):
         raise _fail(f"top level must have exactly the sections {', '.join(_SECTIONS)}")
     for section in _SECTIONS:

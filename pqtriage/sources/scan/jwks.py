@@ -99,7 +99,9 @@ def parse_jwks(data: bytes, path: str) -> ParseOutcome:
     except (ValueError, UnicodeDecodeError):
         return ParseOutcome()
     if isinstance(document, dict) and isinstance(document.get("keys"), list):
-        entries = [(f"key{i}", k) for i, k in enumerate(document["keys"], start=1)]
+        entries: list[tuple[str | None, Any]] = [
+            (f"key{i}", k) for i, k in enumerate(document["keys"], start=1)
+        ]
     elif isinstance(document, dict) and "kty" in document:
         entries = [(None, document)]
     else:

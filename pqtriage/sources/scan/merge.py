@@ -48,9 +48,11 @@ class MergeReport:
     def lines(self) -> list[str]:
         """Summary lines for the terminal."""
         lines = [
-            f"merge: {len(self.added_systems)} systems added, {len(self.added_uses)} uses added "
-            f"to existing systems, {len(self.updated_uses)} facts updated, "
-            f"{len(self.vanished_uses)} uses vanished (kept)"
+            (
+                f"merge: {len(self.added_systems)} systems added, {len(self.added_uses)} uses "
+                f"added to existing systems, {len(self.updated_uses)} facts updated, "
+                f"{len(self.vanished_uses)} uses vanished (kept)"
+            )
         ]
         lines += [f"updated: {line}" for line in self.updated_uses]
         lines += [f"vanished (kept, remove by hand if retired): {s}" for s in self.vanished_uses]
@@ -150,8 +152,7 @@ def path_scope(paths: list[str]) -> Callable[[str], bool]:
     def in_scope(source: str) -> bool:
         file_part = os.path.normpath(source.split("#", 1)[0])
         return any(
-            file_part == root or file_part.startswith(root.rstrip(os.sep) + os.sep)
-            or root == "."
+            file_part == root or file_part.startswith(root.rstrip(os.sep) + os.sep) or root == "."
             for root in roots
         )
 

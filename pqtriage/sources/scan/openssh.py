@@ -94,8 +94,10 @@ def _key_line_findings(
             not_after=_date(facts.valid_before) if facts.certificate else None,
             notes=notes
             + (
-                (f"{facts.certificate_type} certificate",
-                 "principals=" + ",".join(facts.principals))
+                (
+                    f"{facts.certificate_type} certificate",
+                    "principals=" + ",".join(facts.principals),
+                )
                 if facts.certificate
                 else ()
             ),
@@ -148,9 +150,7 @@ def parse_openssh_text(text: str, path: str) -> ParseOutcome:
         if not line or line.startswith("#") or len(line) > _MAX_LINE:
             continue
         fields = split_fields(line)
-        index = next(
-            (i for i, field in enumerate(fields) if looks_like_key_type(field)), None
-        )
+        index = next((i for i, field in enumerate(fields) if looks_like_key_type(field)), None)
         if index is None or index + 1 >= len(fields):
             continue
         key_type, blob_text = fields[index], fields[index + 1]
@@ -169,8 +169,9 @@ def parse_openssh_text(text: str, path: str) -> ParseOutcome:
             continue
         if facts.key_type != key_type:
             problems.append(
-                ScanProblem(place, ProblemKind.CORRUPT, f"line says {key_type}, blob says "
-                            f"{facts.key_type}")
+                ScanProblem(
+                    place, ProblemKind.CORRUPT, f"line says {key_type}, blob says {facts.key_type}"
+                )
             )
             continue
         key_lines += 1
@@ -187,15 +188,19 @@ def _classify(
     """Tell known_hosts, authorized_keys and plain public key lines apart."""
     marker = prefix[0] if prefix and prefix[0].startswith("@") else None
     hosts_field = prefix[1] if marker and len(prefix) > 1 else (prefix[0] if prefix else None)
-    is_known_hosts = style == "known_hosts" or marker is not None or (
-        style == "unknown"
-        and len(prefix) == 1
-        and "=" not in prefix[0]
-        and not prefix[0].startswith(("no-", "restrict", "cert-authority"))
+    is_known_hosts = (
+        style == "known_hosts"
+        or marker is not None
+        or (
+            style == "unknown"
+            and len(prefix) == 1
+            and "=" not in prefix[0]
+            and not prefix[0].startswith(("no-", "restrict", "cert-authority"))
+        )
     )
     if is_known_hosts and hosts_field is not None:
         host = hosts_field.split(",")[0]
-        extra = ("known_hosts entry",)
+        extra: tuple[str, ...] = ("known_hosts entry",)
         if hosts_field.startswith("|1|"):
             extra += ("hashed host name",)
         if marker == "@cert-authority":

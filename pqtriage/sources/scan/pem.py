@@ -86,7 +86,7 @@ def _decode_body(body: bytes, label: str) -> tuple[bytes, dict[str, str]]:
     """Split RFC 1421 headers from the base64 body and decode it."""
     headers: dict[str, str] = {}
     lines = body.strip().splitlines()
-    text_lines = []
+    text_lines: list[bytes] = []
     for raw in lines:
         stripped = raw.strip()
         if b":" in stripped and not text_lines:
@@ -179,13 +179,19 @@ def _legacy_private_key(
     algorithm = _LEGACY_KEYS[label]
     encrypted = "ENCRYPTED" in headers.get("Proc-Type", "")
     if encrypted and password is None:
-        return [encrypted_private_key(source, "encrypted; size unknown without a password", algorithm)]
+        return [
+            encrypted_private_key(source, "encrypted; size unknown without a password", algorithm)
+        ]
     try:
         key = serialization.load_pem_private_key(block_text, password if encrypted else None)
     except _PARSE_ERRORS:
         if encrypted:
-            return [encrypted_private_key(source, "encrypted; the password did not open it", algorithm)]
-        raise _BlockError(ProblemKind.CORRUPT, f"{label} does not parse (key bytes withheld)") from None
+            return [
+                encrypted_private_key(source, "encrypted; the password did not open it", algorithm)
+            ]
+        raise _BlockError(
+            ProblemKind.CORRUPT, f"{label} does not parse (key bytes withheld)"
+        ) from None
     notes = ("encrypted; opened with the password",) if encrypted else ()
     return describe_key(key, source, private=True, notes=notes)
 

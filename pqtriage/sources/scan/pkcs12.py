@@ -50,7 +50,7 @@ def parse_pkcs12(data: bytes, path: str, password: bytes | None) -> ParseOutcome
         bundle = pkcs12.load_pkcs12(data, None)
     except (ValueError, TypeError, UnsupportedAlgorithm):
         bundle = None
-    note = ()
+    note: tuple[str, ...] = ()
     if bundle is None and password is not None:
         try:
             bundle = pkcs12.load_pkcs12(data, password)
@@ -69,9 +69,13 @@ def parse_pkcs12(data: bytes, path: str, password: bytes | None) -> ParseOutcome
     if bundle.key is not None:
         findings.extend(describe_key(bundle.key, SourceRef(path, detail="key"), True, note))
     if bundle.cert is not None:
-        findings.extend(describe_certificate(bundle.cert.certificate, SourceRef(path, detail="cert")))
+        findings.extend(
+            describe_certificate(bundle.cert.certificate, SourceRef(path, detail="cert"))
+        )
     for index, extra in enumerate(bundle.additional_certs, start=1):
-        findings.extend(describe_certificate(extra.certificate, SourceRef(path, detail=f"ca{index}")))
+        findings.extend(
+            describe_certificate(extra.certificate, SourceRef(path, detail=f"ca{index}"))
+        )
     return ParseOutcome(findings=tuple(findings), recognised=True)
 
 

@@ -72,9 +72,9 @@ def classify(data: bytes, path: str, password: bytes | None = None) -> ParseOutc
     return ParseOutcome()
 
 
-def plan(paths: list[str], max_file_bytes: int = DEFAULT_MAX_FILE_BYTES) -> tuple[
-    list[FileEntry], list[ScanProblem]
-]:
+def plan(
+    paths: list[str], max_file_bytes: int = DEFAULT_MAX_FILE_BYTES
+) -> tuple[list[FileEntry], list[ScanProblem]]:
     """Walk the paths first, so a progress bar knows the total."""
     entries: list[FileEntry] = []
     problems: list[ScanProblem] = []
@@ -134,8 +134,12 @@ def fill_issuer_facts(findings: list[Finding]) -> list[Finding]:
             finding.kind is FindingKind.CERTIFICATE_SIGNATURE
             and issuer is not None
             and issuer.algorithm == finding.algorithm
-            and (finding.curve is None and issuer.curve is not None
-                 or finding.key_size is None and issuer.key_size is not None)
+            and (
+                finding.curve is None
+                and issuer.curve is not None
+                or finding.key_size is None
+                and issuer.key_size is not None
+            )
         ):
             finding = dataclasses.replace(
                 finding,

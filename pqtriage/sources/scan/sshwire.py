@@ -107,7 +107,7 @@ def _key_fields(reader: WireReader, base: str) -> tuple[str, int | None, str | N
         for _ in range(3):
             reader.mpint()
         return "DSA", prime.bit_length(), None
-    if base.startswith("ecdsa-sha2-") or base.startswith("sk-ecdsa-sha2-"):
+    if base.startswith(("ecdsa-sha2-", "sk-ecdsa-sha2-")):
         curve_id = reader.string().decode("ascii", "replace")
         reader.string()  # the point
         curve = _CURVES.get(curve_id, curve_id)

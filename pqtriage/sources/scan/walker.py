@@ -106,7 +106,9 @@ def _kind(mode: int) -> str:
     return "not a regular file"
 
 
-def read_file(entry: FileEntry, max_file_bytes: int = DEFAULT_MAX_FILE_BYTES) -> bytes | ScanProblem:
+def read_file(
+    entry: FileEntry, max_file_bytes: int = DEFAULT_MAX_FILE_BYTES
+) -> bytes | ScanProblem:
     """Read a file's bytes, at most the limit (a file that grew is cut, with a problem)."""
     try:
         # O_NONBLOCK: a file swapped for a pipe after the walk must not block the scan.

@@ -48,7 +48,7 @@ def _serve(handle: Callable[[socket.socket], None]) -> Iterator[int]:
             conn.settimeout(3)
             try:
                 handle(conn)
-            except Exception:  # noqa: BLE001 - a probe hanging up is expected
+            except Exception:  # noqa: BLE001, S110 - a probe hanging up is expected
                 pass
             finally:
                 conn.close()

@@ -63,9 +63,11 @@ def test_classical_only_openssh(tmp_path: Path) -> None:
 
 
 def test_closed_port_and_non_ssh_server() -> None:
-    with servers.closed_port() as closed, servers.banner_server(
-        b"HTTP/1.1 400 Bad Request\r\n\r\n"
-    ) as http, servers.banner_server(b"", linger=2.0) as silent:
+    with (
+        servers.closed_port() as closed,
+        servers.banner_server(b"HTTP/1.1 400 Bad Request\r\n\r\n") as http,
+        servers.banner_server(b"", linger=2.0) as silent,
+    ):
         started = time.monotonic()
         result = probe_command(
             [f"ssh://127.0.0.1:{closed}", f"ssh://127.0.0.1:{http}", f"ssh://127.0.0.1:{silent}"],

@@ -31,9 +31,10 @@ pytestmark = pytest.mark.network
 
 @pytest.mark.skipif(not _bundled_openssl_has_mlkem(), reason="bundled OpenSSL lacks ML-KEM")
 def test_probe_tells_classical_and_hybrid_servers_apart(tmp_path: Path) -> None:
-    with servers.python_ssl_server(tmp_path / "a") as classical, servers.pyopenssl_server(
-        tmp_path / "b"
-    ) as hybrid:
+    with (
+        servers.python_ssl_server(tmp_path / "a") as classical,
+        servers.pyopenssl_server(tmp_path / "b") as hybrid,
+    ):
         result = probe_command([f"127.0.0.1:{classical}", f"127.0.0.1:{hybrid}"], timeout=5)
     assert result.exit_code == 0, "\n".join(result.summary)
     systems = {s["source"]: s for s in yaml.safe_load(result.text)["systems"]}
@@ -59,7 +60,9 @@ def test_closed_port_and_wrong_protocol_fail_fast_and_clearly(tmp_path: Path) ->
         elapsed = time.monotonic() - started
     assert elapsed < 3
     assert result.exit_code == 1
-    assert f"127.0.0.1:{closed}: unreachable: refused (nothing listens on that port)" in result.summary
+    assert (
+        f"127.0.0.1:{closed}: unreachable: refused (nothing listens on that port)" in result.summary
+    )
     other_line = next(line for line in result.summary if line.startswith(f"127.0.0.1:{other}:"))
     assert "not TLS" in other_line and "\n" not in other_line
     assert yaml.safe_load(result.text)["systems"] == []

@@ -19,7 +19,7 @@ from cryptography.x509 import load_der_x509_certificate
 
 from pqtriage.model.inventory import Purpose
 from pqtriage.sources.scan.findings import FindingKind, ProblemKind
-from pqtriage.sources.scan.scanner import classify, scan_paths
+from pqtriage.sources.scan.scanner import classify
 from tests.sources import material as m
 
 # (factory, expected algorithm, key_size, curve, parameter_set). Sizes are the library's.
@@ -222,7 +222,10 @@ def test_corrupt_and_truncated_material(tmp_path: Path) -> None:
     damaged = b"".join(lines[:3]) + b"!!!not base64!!!\n" + b"".join(lines[3:])
     good_then_bad = pem + damaged + pem[: len(pem) // 2]
     outcome = classify(good_then_bad, "mixed.pem")
-    assert [f.locator() for f in outcome.findings] == ["mixed.pem#block1", "mixed.pem#block1.signature"]
+    assert [f.locator() for f in outcome.findings] == [
+        "mixed.pem#block1",
+        "mixed.pem#block1.signature",
+    ]
     assert [(p.place, p.kind) for p in outcome.problems] == [
         ("mixed.pem#block2", ProblemKind.CORRUPT),
         ("mixed.pem#block3", ProblemKind.TRUNCATED),

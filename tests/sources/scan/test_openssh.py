@@ -17,7 +17,9 @@ from tests.sources import material as m
 
 def test_public_key_file() -> None:
     key = m.rsa_key(3072)
-    (found,) = parse_openssh_text(m.ssh_public_line(key, "ops@example.test") + "\n", "id.pub").findings
+    (found,) = parse_openssh_text(
+        m.ssh_public_line(key, "ops@example.test") + "\n", "id.pub"
+    ).findings
     assert (found.kind, found.algorithm, found.key_size) == (FindingKind.SSH_KEY, "RSA", 3072)
     assert found.locator() == "id.pub#line1"
     assert "comment=ops@example.test" in found.notes
