@@ -1,0 +1,1 @@
+"""Discovery by probing live endpoints named explicitly (TLS handshakes, SSH KEXINIT)."""

@@ -1,0 +1,1 @@
+"""Discovery by scanning files: keys, certificates, SSH material found on disk."""

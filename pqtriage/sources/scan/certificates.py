@@ -1,0 +1,315 @@
+"""Describe cryptography-library certificates and keys as findings.
+
+Facts only: subject, issuer, validity, key algorithm with size, curve or parameter set,
+signature algorithm, CA flag, key usage. For a private key, only its type and size.
+
+Purpose rule for a certificate's own key (documented in docs/discovery.md):
+  - a CA certificate (basicConstraints cA true, or keyUsage keyCertSign / cRLSign) -> signature;
+  - extended key usage only for code signing, e-mail protection or time stamping -> signature;
+  - keyUsage with keyEncipherment or keyAgreement but without digitalSignature -> key-establishment;
+  - otherwise (a TLS server or client leaf) -> authentication.
+The certificate's signature algorithm (the issuer's signature) is always purpose signature.
+"""
+
+from __future__ import annotations
+
+import warnings
+from dataclasses import dataclass
+
+from cryptography import x509
+from cryptography.exceptions import UnsupportedAlgorithm
+from cryptography.hazmat.primitives.asymmetric import (
+    dh,
+    dsa,
+    ec,
+    ed448,
+    ed25519,
+    mldsa,
+    mlkem,
+    rsa,
+    x448,
+    x25519,
+)
+from cryptography.x509.oid import ExtendedKeyUsageOID
+
+from pqtriage.model.inventory import Purpose, SourceRef
+from pqtriage.sources.scan.findings import Finding, FindingKind
+from pqtriage.sources.scan.identifiers import identifiers
+
+with warnings.catch_warnings():
+    # Naming the classes is not using FFDH; the library warns on first access.
+    warnings.simplefilter("ignore")
+    _DH_KEYS = (dh.DHPublicKey, dh.DHPrivateKey)
+    DH_PARAMETERS = dh.DHParameters
+
+#: cryptography's curve names (SEC 2) -> the NIST names of FIPS 186-5 where they exist.
+_CURVES = {
+    "secp256r1": "P-256",
+    "secp384r1": "P-384",
+    "secp521r1": "P-521",
+    "secp224r1": "P-224",
+    "secp192r1": "P-192",
+}
+
+
+@dataclass(frozen=True)
+class KeyFacts:
+    """Algorithm facts of one key, never its bytes."""
+
+    algorithm: str
+    """Catalog spelling."""
+    key_size: int | None = None
+    """Bits, for RSA, DSA, DH and elliptic-curve keys."""
+    curve: str | None = None
+    """Curve name for elliptic-curve keys."""
+    parameter_set: str | None = None
+    """Parameter set for ML-DSA, ML-KEM, SLH-DSA."""
+
+
+def curve_name(curve: ec.EllipticCurve) -> str:
+    """Return the NIST name of a curve (P-256 ...) or its SEC 2 name otherwise."""
+    return _CURVES.get(curve.name, curve.name)
+
+
+def key_facts(key: object) -> KeyFacts | None:
+    """Return algorithm facts for a public or private key object, None if unknown."""
+    if isinstance(key, rsa.RSAPublicKey | rsa.RSAPrivateKey):
+        return KeyFacts("RSA", key_size=key.key_size)
+    if isinstance(key, ec.EllipticCurvePublicKey | ec.EllipticCurvePrivateKey):
+        return KeyFacts("ECDSA", key_size=key.curve.key_size, curve=curve_name(key.curve))
+    if isinstance(key, dsa.DSAPublicKey | dsa.DSAPrivateKey):
+        return KeyFacts("DSA", key_size=key.key_size)
+    if isinstance(key, _DH_KEYS):
+        return KeyFacts("DH", key_size=key.key_size)
+    if isinstance(key, ed25519.Ed25519PublicKey | ed25519.Ed25519PrivateKey):
+        return KeyFacts("Ed25519")
+    if isinstance(key, ed448.Ed448PublicKey | ed448.Ed448PrivateKey):
+        return KeyFacts("Ed448")
+    if isinstance(key, x25519.X25519PublicKey | x25519.X25519PrivateKey):
+        return KeyFacts("X25519")
+    if isinstance(key, x448.X448PublicKey | x448.X448PrivateKey):
+        return KeyFacts("X448")
+    for size, public, private in (
+        ("44", mldsa.MLDSA44PublicKey, mldsa.MLDSA44PrivateKey),
+        ("65", mldsa.MLDSA65PublicKey, mldsa.MLDSA65PrivateKey),
+        ("87", mldsa.MLDSA87PublicKey, mldsa.MLDSA87PrivateKey),
+    ):
+        if isinstance(key, public | private):
+            return KeyFacts(f"ML-DSA-{size}", parameter_set=size)
+    for size, kem_public, kem_private in (
+        ("768", mlkem.MLKEM768PublicKey, mlkem.MLKEM768PrivateKey),
+        ("1024", mlkem.MLKEM1024PublicKey, mlkem.MLKEM1024PrivateKey),
+    ):
+        if isinstance(key, kem_public | kem_private):
+            return KeyFacts(f"ML-KEM-{size}", parameter_set=size)
+    return None
+
+
+def oid_key_facts(oid: x509.ObjectIdentifier) -> KeyFacts | None:
+    """Key facts from a subject public key algorithm OID alone (for keys the library lacks)."""
+    entry = identifiers().public_key_algorithms.get(oid.dotted_string)
+    if entry is None:
+        return None
+    return KeyFacts(entry.algorithm, parameter_set=entry.parameter_set)
+
+
+def key_purpose(facts: KeyFacts) -> Purpose:
+    """Purpose of a bare key found on its own: what its algorithm can do."""
+    if facts.algorithm in {"X25519", "X448", "DH"} or facts.algorithm.startswith("ML-KEM"):
+        return Purpose.KEY_ESTABLISHMENT
+    return Purpose.AUTHENTICATION
+
+
+def _name(name: x509.Name) -> str:
+    return name.rfc4514_string()
+
+
+def _common_name(cert: x509.Certificate | x509.CertificateSigningRequest) -> str | None:
+    values = cert.subject.get_attributes_for_oid(x509.NameOID.COMMON_NAME)
+    if values:
+        value = values[0].value
+        return value if isinstance(value, str) else value.decode("utf-8", "replace")
+    return None
+
+
+def _dns_names(cert: x509.Certificate) -> list[str]:
+    try:
+        san = cert.extensions.get_extension_for_class(x509.SubjectAlternativeName)
+    except x509.ExtensionNotFound:
+        return []
+    return san.value.get_values_for_type(x509.DNSName)
+
+
+def _key_usage(cert: x509.Certificate) -> tuple[tuple[str, ...], bool, bool]:
+    """Return (usage names, CA flag, has code/e-mail/time-stamp-only EKU)."""
+    names: list[str] = []
+    ca = False
+    try:
+        ca = cert.extensions.get_extension_for_class(x509.BasicConstraints).value.ca
+    except x509.ExtensionNotFound:
+        pass
+    try:
+        usage = cert.extensions.get_extension_for_class(x509.KeyUsage).value
+        for attribute in (
+            "digital_signature",
+            "content_commitment",
+            "key_encipherment",
+            "data_encipherment",
+            "key_agreement",
+            "key_cert_sign",
+            "crl_sign",
+        ):
+            if getattr(usage, attribute):
+                names.append(attribute)
+    except x509.ExtensionNotFound:
+        pass
+    signing_only_eku = False
+    try:
+        eku = list(cert.extensions.get_extension_for_class(x509.ExtendedKeyUsage).value)
+        names.extend(oid._name for oid in eku)
+        signing = {
+            ExtendedKeyUsageOID.CODE_SIGNING,
+            ExtendedKeyUsageOID.EMAIL_PROTECTION,
+            ExtendedKeyUsageOID.TIME_STAMPING,
+        }
+        tls = {ExtendedKeyUsageOID.SERVER_AUTH, ExtendedKeyUsageOID.CLIENT_AUTH}
+        signing_only_eku = bool(set(eku) & signing) and not set(eku) & tls
+    except x509.ExtensionNotFound:
+        pass
+    return tuple(names), ca, signing_only_eku
+
+
+def certificate_purpose(ca: bool, usage: tuple[str, ...], signing_only_eku: bool) -> Purpose:
+    """Purpose of a certificate's own key, by the rule in this module's docstring."""
+    if ca or "key_cert_sign" in usage or "crl_sign" in usage or signing_only_eku:
+        return Purpose.SIGNATURE
+    if "digital_signature" not in usage and (
+        "key_encipherment" in usage or "key_agreement" in usage
+    ):
+        return Purpose.KEY_ESTABLISHMENT
+    return Purpose.AUTHENTICATION
+
+
+def _certificate_key(cert: x509.Certificate) -> KeyFacts:
+    try:
+        facts = key_facts(cert.public_key())
+    except (UnsupportedAlgorithm, ValueError):
+        facts = None
+    if facts is None:
+        facts = oid_key_facts(cert.public_key_algorithm_oid)
+    return facts or KeyFacts(f"unknown ({cert.public_key_algorithm_oid.dotted_string})")
+
+
+def signature_facts(cert: x509.Certificate) -> tuple[KeyFacts, tuple[str, ...]]:
+    """Facts of the issuer's signature on a certificate, with notes (hash ...).
+
+    For RSA the signature is as long as the issuer's modulus (RFC 8017, section 8.2.1:
+    the signature is an octet string of length k, the modulus length in octets), so the
+    issuer's key size is known even without the issuer's certificate.
+    """
+    oid = cert.signature_algorithm_oid.dotted_string
+    entry = identifiers().signature_algorithms.get(oid)
+    if entry is None:
+        return KeyFacts(f"unknown ({oid})"), ("signature algorithm not in the identifier table",)
+    notes = []
+    if entry.hash:
+        notes.append(f"hash={entry.hash}")
+    if entry.notes:
+        notes.append(entry.notes)
+    key_size = len(cert.signature) * 8 if entry.algorithm == "RSA" else None
+    return KeyFacts(entry.algorithm, key_size=key_size, parameter_set=entry.parameter_set), tuple(
+        notes
+    )
+
+
+def describe_certificate(
+    cert: x509.Certificate, source: SourceRef, protocol: str | None = None
+) -> list[Finding]:
+    """Return two findings for a certificate: its own key, and the issuer's signature on it."""
+    usage, ca, signing_only_eku = _key_usage(cert)
+    facts = _certificate_key(cert)
+    dns = _dns_names(cert)
+    common = {
+        "subject": _name(cert.subject),
+        "subject_name": _common_name(cert) or (dns[0] if dns else None) or _name(cert.subject),
+        "issuer": _name(cert.issuer),
+        "not_before": cert.not_valid_before_utc.date().isoformat(),
+        "not_after": cert.not_valid_after_utc.date().isoformat(),
+        "ca": ca,
+        "key_usage": usage,
+        "host": dns[0] if dns else None,
+        "protocol": protocol,
+    }
+    key = Finding(
+        source=source,
+        kind=FindingKind.CERTIFICATE_KEY,
+        algorithm=facts.algorithm,
+        purpose=certificate_purpose(ca, usage, signing_only_eku),
+        key_size=facts.key_size,
+        curve=facts.curve,
+        parameter_set=facts.parameter_set,
+        **common,  # type: ignore[arg-type]
+    )
+    signature, notes = signature_facts(cert)
+    self_signed = cert.issuer == cert.subject
+    if self_signed and signature.algorithm == facts.algorithm and facts.curve:
+        signature = KeyFacts(signature.algorithm, facts.key_size, facts.curve, facts.parameter_set)
+    sig_source = SourceRef(source.file, source.line, source.column, _suffix(source, "signature"))
+    signed = Finding(
+        source=sig_source,
+        kind=FindingKind.CERTIFICATE_SIGNATURE,
+        algorithm=signature.algorithm,
+        purpose=Purpose.SIGNATURE,
+        key_size=signature.key_size,
+        curve=signature.curve,
+        parameter_set=signature.parameter_set,
+        notes=notes + (("self-signed",) if self_signed else ()),
+        **common,  # type: ignore[arg-type]
+    )
+    return [key, signed]
+
+
+def describe_csr(csr: x509.CertificateSigningRequest, source: SourceRef) -> list[Finding]:
+    """Return one finding for the key a certificate signing request asks to certify."""
+    try:
+        facts = key_facts(csr.public_key())
+    except (UnsupportedAlgorithm, ValueError):
+        facts = None
+    facts = facts or KeyFacts("unknown")
+    return [
+        Finding(
+            source=source,
+            kind=FindingKind.CSR_KEY,
+            algorithm=facts.algorithm,
+            purpose=Purpose.AUTHENTICATION,
+            key_size=facts.key_size,
+            curve=facts.curve,
+            parameter_set=facts.parameter_set,
+            subject=_name(csr.subject),
+            subject_name=_common_name(csr),
+            notes=("certificate signing request",),
+        )
+    ]
+
+
+def describe_key(
+    key: object, source: SourceRef, private: bool, notes: tuple[str, ...] = ()
+) -> list[Finding]:
+    """Return one finding for a bare public or private key: type and size only."""
+    facts = key_facts(key) or KeyFacts("unknown")
+    return [
+        Finding(
+            source=source,
+            kind=FindingKind.PRIVATE_KEY if private else FindingKind.PUBLIC_KEY,
+            algorithm=facts.algorithm,
+            purpose=key_purpose(facts),
+            key_size=facts.key_size,
+            curve=facts.curve,
+            parameter_set=facts.parameter_set,
+            notes=(("private key in a plain file",) if private else ()) + notes,
+        )
+    ]
+
+
+def _suffix(source: SourceRef, role: str) -> str:
+    return f"{source.detail}.{role}" if source.detail else role

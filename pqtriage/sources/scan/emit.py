@@ -1,0 +1,125 @@
+"""Findings -> inventory document (a plain dict in the inventory format) -> YAML or JSON text.
+
+Values a scan cannot know come from documented defaults and are listed in each system's
+``assumed``: shelf-life (Mosca's x), migration time (Mosca's y) and exposure.
+"""
+
+from __future__ import annotations
+
+import json
+import re
+from collections.abc import Mapping
+from typing import Any
+
+import yaml
+
+from pqtriage.sources.scan.findings import Finding
+from pqtriage.sources.scan.grouping import Group
+
+#: Documented defaults (docs/discovery.md): a scan cannot know these, the owner must set them.
+DEFAULT_SHELF_LIFE_YEARS = 5
+DEFAULT_MIGRATION_YEARS = 2
+DEFAULT_EXPOSURE = "internal"
+ASSUMED_SYSTEM_FIELDS = ["shelf_life_years", "migration_years", "exposure"]
+DEFAULT_ORGANIZATION = "Scanned inventory"
+
+_SLUG = re.compile(r"[^a-z0-9]+")
+
+
+def slugify(text: str) -> str:
+    """Lower-case ASCII letters and digits joined by hyphens, at most 60 characters."""
+    slug = _SLUG.sub("-", text.lower()).strip("-")[:60].strip("-")
+    return slug or "system"
+
+
+def unique_id(base: str, taken: set[str]) -> str:
+    """``base``, or ``base-2``, ``base-3`` ... whichever is not taken yet (and take it)."""
+    candidate, number = base, 2
+    while candidate in taken:
+        candidate, number = f"{base}-{number}", number + 1
+    taken.add(candidate)
+    return candidate
+
+
+def use_notes(finding: Finding) -> str | None:
+    """The facts beside a use, as one line: subject, issuer, validity, CA, key usage, notes."""
+    parts: list[str] = []
+    if finding.subject:
+        parts.append(f"subject={finding.subject}")
+    if finding.issuer:
+        parts.append(f"issuer={finding.issuer}")
+    if finding.not_before:
+        parts.append(f"not_before={finding.not_before}")
+    if finding.not_after:
+        parts.append(f"not_after={finding.not_after}")
+    if finding.ca is not None:
+        parts.append("CA" if finding.ca else "not CA")
+    if finding.key_usage:
+        parts.append("keyUsage=" + ",".join(finding.key_usage))
+    parts.extend(finding.notes)
+    return "; ".join(parts) if parts else None
+
+
+def use_dict(finding: Finding) -> dict[str, Any]:
+    """One use in the inventory format."""
+    use: dict[str, Any] = {"purpose": finding.purpose.value, "algorithm": finding.algorithm}
+    if finding.key_size is not None:
+        use["key_size"] = finding.key_size
+    if finding.curve is not None:
+        use["curve"] = finding.curve
+    if finding.parameter_set is not None:
+        use["parameter_set"] = finding.parameter_set
+    if finding.protocol is not None:
+        use["protocol"] = finding.protocol
+    notes = use_notes(finding)
+    if notes:
+        use["notes"] = notes
+    use["source"] = finding.locator()
+    return use
+
+
+def inventory_dict(
+    groups: list[Group],
+    organization: str = DEFAULT_ORGANIZATION,
+    shelf_life_years: float = DEFAULT_SHELF_LIFE_YEARS,
+    migration_years: float = DEFAULT_MIGRATION_YEARS,
+    system_extras: Mapping[str, Mapping[str, Any]] | None = None,
+) -> dict[str, Any]:
+    """Build the inventory document; ``system_extras`` adds protocol / notes per group key."""
+    taken: set[str] = set()
+    systems = []
+    for group in groups:
+        system: dict[str, Any] = {
+            "id": unique_id(slugify(group.key), taken),
+            "name": group.key if group.label != "folder" else f"{group.key} (folder)",
+            "shelf_life_years": shelf_life_years,
+            "migration_years": migration_years,
+            "assumed": list(ASSUMED_SYSTEM_FIELDS),
+            "source": group.key,
+            "exposure": DEFAULT_EXPOSURE,
+        }
+        extras = (system_extras or {}).get(group.key, {})
+        for key in ("protocol", "notes"):
+            if extras.get(key):
+                system[key] = extras[key]
+        if "notes" not in system:
+            system["notes"] = f"found by discovery; grouped by {group.label}"
+        seen: set[str] = set()
+        uses = []
+        for finding in group.findings:
+            use = use_dict(finding)
+            # Sources identify uses (merge relies on it): keep them unique.
+            use["source"] = unique_id(use["source"], seen)
+            uses.append(use)
+        system["uses"] = uses
+        systems.append(system)
+    return {"version": 1, "organization": organization, "systems": systems}
+
+
+def render(document: Mapping[str, Any], output_format: str = "yaml") -> str:
+    """Inventory document as YAML (block style, key order kept) or JSON text."""
+    if output_format == "json":
+        return json.dumps(document, indent=2, ensure_ascii=False) + "\n"
+    return yaml.safe_dump(
+        dict(document), sort_keys=False, allow_unicode=True, default_flow_style=False, width=100
+    )

@@ -1,0 +1,225 @@
+"""PEM files with any number of blocks (RFC 7468 textual encodings, RFC 1421 headers).
+
+Each block is read on its own and sourced ``path#blockN`` (1-based, in file order), so one
+corrupt block does not hide the others. A BEGIN line without its END line is reported as
+truncated. Private key blocks give their type and size only; no message quotes their bytes.
+"""
+
+from __future__ import annotations
+
+import base64
+import binascii
+import re
+
+from cryptography import x509
+from cryptography.exceptions import UnsupportedAlgorithm
+from cryptography.hazmat.primitives import serialization
+from cryptography.hazmat.primitives.serialization import pkcs7
+
+from pqtriage.model.inventory import Purpose, SourceRef
+from pqtriage.sources.scan.certificates import (
+    DH_PARAMETERS,
+    describe_certificate,
+    describe_csr,
+    describe_key,
+)
+from pqtriage.sources.scan.der import (
+    der_total_length,
+    encrypted_private_key,
+    pkcs7_findings,
+    private_key_der,
+)
+from pqtriage.sources.scan.findings import (
+    Finding,
+    FindingKind,
+    ParseOutcome,
+    ProblemKind,
+    ScanProblem,
+)
+from pqtriage.sources.scan.sshwire import WireError, parse_openssh_private_key
+
+_BEGIN = re.compile(rb"^-----BEGIN ([A-Z0-9 #]{1,64})-----[ \t]*\r?$", re.MULTILINE)
+_PARSE_ERRORS = (ValueError, TypeError, UnsupportedAlgorithm)
+_LEGACY_KEYS = {"RSA PRIVATE KEY": "RSA", "EC PRIVATE KEY": "ECDSA", "DSA PRIVATE KEY": "DSA"}
+_IGNORED = {"X509 CRL", "EC PARAMETERS", "PGP SIGNATURE", "SIGNATURE"}
+
+
+def has_pem(data: bytes) -> bool:
+    """True when the bytes contain at least one PEM BEGIN line."""
+    return _BEGIN.search(data) is not None
+
+
+def parse_pem(data: bytes, path: str, password: bytes | None) -> ParseOutcome:
+    """Describe every block of a PEM file."""
+    findings: list[Finding] = []
+    problems: list[ScanProblem] = []
+    for number, match in enumerate(_BEGIN.finditer(data), start=1):
+        label = match.group(1).decode("ascii")
+        line = data.count(b"\n", 0, match.start()) + 1
+        source = SourceRef(path, line=line, detail=f"block{number}")
+        place = f"{path}#block{number}"
+        end = re.compile(rb"^-----END " + re.escape(match.group(1)) + rb"-----", re.MULTILINE)
+        end_match = end.search(data, match.end())
+        next_begin = _BEGIN.search(data, match.end())
+        if end_match is None or (next_begin is not None and next_begin.start() < end_match.start()):
+            problems.append(ScanProblem(place, ProblemKind.TRUNCATED, f"{label} has no END line"))
+            continue
+        body = data[match.end() : end_match.start()]
+        block_text = data[match.start() : end_match.end()] + b"\n"
+        try:
+            outcome = _block(label, body, block_text, source, password)
+        except _BlockError as error:
+            problems.append(ScanProblem(place, error.kind, error.reason))
+            continue
+        findings.extend(outcome)
+    return ParseOutcome(tuple(findings), tuple(problems), recognised=True)
+
+
+class _BlockError(Exception):
+    def __init__(self, kind: ProblemKind, reason: str) -> None:
+        super().__init__(reason)
+        self.kind = kind
+        self.reason = reason
+
+
+def _decode_body(body: bytes, label: str) -> tuple[bytes, dict[str, str]]:
+    """Split RFC 1421 headers from the base64 body and decode it."""
+    headers: dict[str, str] = {}
+    lines = body.strip().splitlines()
+    text_lines: list[bytes] = []
+    for raw in lines:
+        stripped = raw.strip()
+        if b":" in stripped and not text_lines:
+            key, _, value = stripped.partition(b":")
+            headers[key.decode("ascii", "replace").strip()] = value.decode("ascii", "replace")
+            continue
+        text_lines.append(stripped)
+    try:
+        der = base64.b64decode(b"".join(text_lines), validate=True)
+    except (binascii.Error, ValueError) as error:
+        raise _BlockError(ProblemKind.CORRUPT, f"{label} body is not valid base64") from error
+    if not der:
+        raise _BlockError(ProblemKind.CORRUPT, f"{label} body is empty")
+    total = der_total_length(der)
+    if total is not None and total > len(der):
+        raise _BlockError(
+            ProblemKind.TRUNCATED, f"{label} announces {total} bytes but holds {len(der)}"
+        )
+    return der, headers
+
+
+def _block(
+    label: str, body: bytes, block_text: bytes, source: SourceRef, password: bytes | None
+) -> list[Finding]:
+    if label in _IGNORED:
+        return []
+    der, headers = _decode_body(body, label)
+    corrupt = _BlockError(ProblemKind.CORRUPT, f"{label} does not parse")
+    if label in {"CERTIFICATE", "X509 CERTIFICATE", "TRUSTED CERTIFICATE"}:
+        total = der_total_length(der)
+        try:
+            # TRUSTED CERTIFICATE (OpenSSL) appends trust settings after the certificate.
+            cert = x509.load_der_x509_certificate(der[:total] if total else der)
+        except _PARSE_ERRORS:
+            raise corrupt from None
+        return describe_certificate(cert, source)
+    if label in {"CERTIFICATE REQUEST", "NEW CERTIFICATE REQUEST"}:
+        try:
+            return describe_csr(x509.load_der_x509_csr(der), source)
+        except _PARSE_ERRORS:
+            raise corrupt from None
+    if label in {"PUBLIC KEY", "RSA PUBLIC KEY"}:
+        try:
+            key = serialization.load_pem_public_key(block_text)
+        except _PARSE_ERRORS:
+            raise corrupt from None
+        return describe_key(key, source, private=False)
+    if label in {"PKCS7", "CMS"}:
+        try:
+            return pkcs7_findings(pkcs7.load_der_pkcs7_certificates(der), source)
+        except _PARSE_ERRORS:
+            raise corrupt from None
+    if label in {"PRIVATE KEY", "ENCRYPTED PRIVATE KEY"}:
+        found = private_key_der(der, source, password)
+        if found is None:
+            raise _BlockError(ProblemKind.CORRUPT, f"{label} does not parse (key bytes withheld)")
+        return found
+    if label in _LEGACY_KEYS:
+        return _legacy_private_key(label, block_text, headers, source, password)
+    if label == "OPENSSH PRIVATE KEY":
+        return _openssh_private_key(der, source)
+    if label == "DH PARAMETERS":
+        try:
+            parameters = serialization.load_pem_parameters(block_text)
+        except _PARSE_ERRORS:
+            raise corrupt from None
+        if not isinstance(parameters, DH_PARAMETERS):
+            return []
+        return [
+            Finding(
+                source=source,
+                kind=FindingKind.PUBLIC_KEY,
+                algorithm="DH",
+                purpose=Purpose.KEY_ESTABLISHMENT,
+                key_size=parameters.parameter_numbers().p.bit_length(),
+                notes=("Diffie-Hellman parameters",),
+            )
+        ]
+    return []
+
+
+def _legacy_private_key(
+    label: str,
+    block_text: bytes,
+    headers: dict[str, str],
+    source: SourceRef,
+    password: bytes | None,
+) -> list[Finding]:
+    """RFC 1421-style key blocks; Proc-Type 4,ENCRYPTED names its type in the label."""
+    algorithm = _LEGACY_KEYS[label]
+    encrypted = "ENCRYPTED" in headers.get("Proc-Type", "")
+    if encrypted and password is None:
+        return [
+            encrypted_private_key(source, "encrypted; size unknown without a password", algorithm)
+        ]
+    try:
+        key = serialization.load_pem_private_key(block_text, password if encrypted else None)
+    except _PARSE_ERRORS:
+        if encrypted:
+            return [
+                encrypted_private_key(source, "encrypted; the password did not open it", algorithm)
+            ]
+        raise _BlockError(
+            ProblemKind.CORRUPT, f"{label} does not parse (key bytes withheld)"
+        ) from None
+    notes = ("encrypted; opened with the password",) if encrypted else ()
+    return describe_key(key, source, private=True, notes=notes)
+
+
+def _openssh_private_key(blob: bytes, source: SourceRef) -> list[Finding]:
+    """OpenSSH's own private key format: type and size come from the clear public half."""
+    try:
+        facts = parse_openssh_private_key(blob)
+    except WireError:
+        raise _BlockError(
+            ProblemKind.CORRUPT, "OPENSSH PRIVATE KEY does not parse (key bytes withheld)"
+        ) from None
+    findings = []
+    for index, key in enumerate(facts.keys, start=1):
+        detail = source.detail if len(facts.keys) == 1 else f"{source.detail}.key{index}"
+        notes = ["private key in a plain file", f"ssh key type {key.key_type}"]
+        if facts.cipher != "none":
+            notes.append(f"encrypted ({facts.cipher})")
+        findings.append(
+            Finding(
+                source=SourceRef(source.file, source.line, None, detail),
+                kind=FindingKind.PRIVATE_KEY,
+                algorithm=key.algorithm,
+                purpose=Purpose.AUTHENTICATION,
+                key_size=key.key_size,
+                curve=key.curve,
+                protocol="SSH",
+                notes=tuple(notes),
+            )
+        )
+    return findings
