@@ -7,9 +7,10 @@ exit code (0 all read, 1 something could not be read or reached). Bad usage rais
 
 from __future__ import annotations
 
+from pqtriage.output import write_atomic  # noqa: F401  (the one writer; re-exported for callers)
+
 import os
 import sys
-import tempfile
 from collections.abc import Callable, Iterator
 from contextlib import contextmanager
 from dataclasses import dataclass
@@ -49,20 +50,6 @@ class CommandResult:
     """0 when everything was read or reached, 1 otherwise."""
     written: str | None = None
     """Path the inventory was written to, if any."""
-
-
-def write_atomic(path: str, text: str) -> None:
-    """Write text to path through a temporary file in the same folder and a rename."""
-    folder = os.path.dirname(os.path.abspath(path))
-    handle, temporary = tempfile.mkstemp(prefix=".pqtriage-", dir=folder)
-    try:
-        with os.fdopen(handle, "w", encoding="utf-8") as stream:
-            stream.write(text)
-        os.replace(temporary, path)
-    except BaseException:
-        if os.path.exists(temporary):
-            os.unlink(temporary)
-        raise
 
 
 def _check_format(output_format: str) -> None:
