@@ -2,16 +2,20 @@
 
 from __future__ import annotations
 
-from pqtriage.model.verdict import TriageResult
+from pqtriage.model.verdict import TriageResult, Verdict
 from pqtriage.plan.inputs import PlanCandidate, PlanUse
 
 
 def candidates_from_triage(result: TriageResult) -> tuple[PlanCandidate, ...]:
-    """One candidate per ranked system; dependencies outside the inventory are dropped
-    from scheduling (they are reported as inventory warnings)."""
-    known = {item.system.id for item in result.items}
+    """One candidate per ranked system that still has to migrate.
+
+    Quantum-resistant systems need no migration and are left out; dependencies on them
+    or outside the inventory (reported as inventory warnings) do not constrain the plan.
+    """
+    planned = [i for i in result.items if i.verdict != Verdict.QUANTUM_RESISTANT]
+    known = {item.system.id for item in planned}
     candidates = []
-    for item in result.items:
+    for item in planned:
         system = item.system
         uses = []
         for use in item.uses:

@@ -83,15 +83,15 @@ def plan_view(plan: Plan, period: Period = "year") -> RenderableType:
     first = _period_key(plan, first_q, period)
     last = _period_key(plan, last_q, period)
     unit = "year" if period == "year" else "quarter"
-    table = Table(box=box.SIMPLE_HEAD, pad_edge=False, title_justify="left")
+    table = Table(box=box.SIMPLE_HEAD, pad_edge=False, collapse_padding=True, title_justify="left")
     table.add_column("Period", no_wrap=True)
-    table.add_column("System", overflow="fold", min_width=10)
+    table.add_column("System", overflow="fold", min_width=12)
     table.add_column("Rank", justify="right", no_wrap=True)
     table.add_column("Window", no_wrap=True)
     table.add_column("Start by", no_wrap=True)
-    table.add_column("Earliest deadline", overflow="fold", min_width=12)
-    table.add_column("Slack d", justify="right", no_wrap=True)
-    table.add_column("Status", min_width=7)
+    table.add_column("Earliest deadline", overflow="fold", min_width=14)
+    table.add_column("Slack (d)", justify="right", no_wrap=True)
+    table.add_column("Status", min_width=10, overflow="fold")
     chart = Table(box=box.SIMPLE_HEAD, pad_edge=False)
     chart.add_column("System", no_wrap=True, overflow="ellipsis", max_width=24)
     chart.add_column(
@@ -113,7 +113,7 @@ def plan_view(plan: Plan, period: Period = "year") -> RenderableType:
         word, style = status_of(system)
         ident = literal(item.id, style="bold" if system.on_critical_path else "")
         name = ident.copy()
-        name.append(" ")
+        name.append("\n")
         name.append(literal(item.name, style="dim"))
         table.add_row(
             Text(group, style="bold"),
@@ -122,7 +122,9 @@ def plan_view(plan: Plan, period: Period = "year") -> RenderableType:
             f"{quarter_label(plan.origin, system.slot.start)}–"
             f"{quarter_label(plan.origin, system.slot.finish)}",
             item.start_by.isoformat() if item.start_by else "-",
-            literal(f"{earliest.date} {earliest.kind} ({earliest.policy})") if earliest else "-",
+            Text.assemble(literal(str(earliest.date)), "\n", literal(f"{earliest.kind} ({earliest.policy})"))
+            if earliest
+            else "-",
             "" if system.deadline_slack_days is None else str(system.deadline_slack_days),
             Text(word, style=style),
         )
