@@ -12,8 +12,12 @@ import sys
 from enum import Enum
 from typing import Any, List, Optional
 
-import click
 import typer
+
+try:  # typer 0.2x vendors its own click; older releases use the click package
+    from typer._click import exceptions as _click_errors  # type: ignore[import-not-found]
+except ImportError:  # pragma: no cover - depends on the installed typer
+    from click import exceptions as _click_errors
 
 from pqtriage import __version__
 from pqtriage.errors import EXIT_BAD_INPUT, EXIT_FINDINGS, EXIT_INTERNAL, EXIT_OK, PqtriageError
@@ -253,10 +257,10 @@ def main(argv: Optional[list[str]] = None) -> int:
             raise
         sys.stderr.write(f"pqtriage: error: {exc.diagnostics()}\n")
         return exc.exit_code
-    except click.exceptions.Abort:
+    except typer.Abort:
         sys.stderr.write("pqtriage: aborted\n")
         return EXIT_INTERNAL
-    except click.exceptions.ClickException as exc:
+    except _click_errors.ClickException as exc:
         if debug:
             raise
         sys.stderr.write(f"pqtriage: error: {' '.join(exc.format_message().split())}"

@@ -1,0 +1,55 @@
+"""Exact text of the terminal table (width 100, colours off) on a small fixed inventory.
+
+The profile is a deterministic what-if (CRQC on 1 January 2035), as of 2026-12-01 (decimal
+year 2026.917), with shared arrivals, so every number can be checked by hand:
+crew-archive RSA-3072 key establishment: x + y = 14 > 8.08 years to z: exposed, P = 100%,
+start by 2035.0 - 14 = 2021.0; ticket-web X25519: x + y = 5 < 8.08: within margin,
+start by 2035 - 5 = 2030-01-01.
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+import io
+from pathlib import Path
+
+from rich.console import Console
+
+from pqtriage.catalog import load_catalog
+from pqtriage.formats.table import terminal_view
+from pqtriage.model.arrival import SharedArrival
+from pqtriage.model.triage import triage
+from pqtriage.model.verdict import TriageResult
+from pqtriage.sources.loading import load_inventory
+from pqtriage.sources.profile_file import load_profile
+
+HERE = Path(__file__).parent
+
+
+def small_result() -> TriageResult:
+    inventory = load_inventory(str(HERE / "small.yaml"))
+    profile = load_profile(str(HERE / "what-if-2035.yaml"))
+    return triage(inventory, load_catalog(), profile, SharedArrival(), dt.date(2026, 12, 1))
+
+
+def render(renderable: object) -> str:
+    buffer = io.StringIO()
+    Console(file=buffer, width=100, no_color=True, color_system=None, highlight=False).print(renderable)
+    return buffer.getvalue()
+
+
+def test_ranked_table_exact_text() -> None:
+    text = render(terminal_view(small_result()))
+    lines = [line.rstrip() for line in text.splitlines()]
+    expected = (HERE / "expected_table.txt").read_text(encoding="utf-8").splitlines()
+    assert lines == expected
+
+
+def test_hand_computed_numbers() -> None:
+    result = small_result()
+    by_id = {i.system.id: i for i in result.items}
+    assert [i.system.id for i in result.items] == ["legacy-link", "crew-archive", "mystery", "ticket-web", "pq-backup"]
+    assert by_id["crew-archive"].start_by == dt.date(2021, 1, 1)
+    assert by_id["ticket-web"].start_by == dt.date(2030, 1, 1)
+    assert by_id["ticket-web"].exposure_probability == 0.0
+    assert by_id["crew-archive"].exposure_probability == 1.0
