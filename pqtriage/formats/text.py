@@ -52,10 +52,9 @@ def _escape_leading(match: re.Match[str]) -> str:
 
 
 def markdown_code(text: object) -> str:
-    """Text inside inline code: backticks cannot be escaped there, so use entities in HTML code."""
-    value = visible(text).replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
-    value = value.replace("|", "&#124;").replace("`", "&#96;")
-    return f"<code>{value}</code>"
+    """Text in a monospace span. Markdown is still parsed inside inline HTML, so the content
+    is escaped like any other text (backticks cannot be escaped inside a code span)."""
+    return f"<code>{markdown_text(text)}</code>"
 
 
 def csv_cell(text: object) -> str:
