@@ -27,6 +27,10 @@ def write_atomic(path: str | Path, text: str) -> None:
             stream.write(text)
             stream.flush()
             os.fsync(stream.fileno())
+        # mkstemp creates the file private (0600); give it the permissions a plain open() would.
+        umask = os.umask(0)
+        os.umask(umask)
+        os.chmod(temp, 0o666 & ~umask)
         os.replace(temp, target)
     except OSError as exc:
         try:

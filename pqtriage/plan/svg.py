@@ -72,8 +72,10 @@ def _years(plan: Plan) -> tuple[int, int]:
         dates += [system.planned_finish] + [r.deadline.date for r in system.results]
         if system.candidate.start_by is not None:
             dates.append(system.candidate.start_by)
-    # One spare year on the right, so that end-of-year deadlines are not on the border.
-    return min(d.year for d in dates), max(d.year for d in dates) + 1
+    # One spare year on the right, so that end-of-year deadlines are not on the border. The
+    # axis starts two years before the plan: start-by dates decades in the past (overdue) are
+    # pinned to the left edge with an "overdue" label instead of squeezing the whole chart.
+    return max(min(d.year for d in dates), plan.start.year - 2), max(d.year for d in dates) + 1
 
 
 def _row(scale: _Scale, system: SystemPlan, index: int) -> list[str]:
@@ -96,8 +98,13 @@ def _row(scale: _Scale, system: SystemPlan, index: int) -> list[str]:
         f'fill="{COLOURS[word]}"><title>{_text(tooltip)}</title></rect>'
     )
     if item.start_by is not None:
-        sx = scale.x(item.start_by)
+        sx = max(scale.x(item.start_by), scale.left + 5)
         top = mid - BAR_HEIGHT / 2 - 1
+        if item.start_by < scale.first:
+            out.append(
+                f'<text class="overdue" x="{sx + 8}" y="{top}" font-size="10" '
+                f'fill="{START_BY_COLOUR}">overdue since {item.start_by.year}</text>'
+            )
         out.append(
             f'<polygon class="start-by" points="{sx - 5},{top - 7} {sx + 5},{top - 7} {sx},{top}" '
             f'fill="{START_BY_COLOUR}"><title>{_text(f"{item.id}: start by {item.start_by}")}'
@@ -170,10 +177,11 @@ def plan_svg(plan: Plan, title: str = "Post-quantum migration timeline") -> str:
         f'<text x="12" y="42" fill="#555555">{_text(subtitle)}</text>',
         '<g class="axis">',
     ]
+    step = 1 if last_year - first_year < 16 else 2  # keep year labels from overlapping
     for year in range(first_year, last_year + 2):
         x = scale.x(datetime.date(year, 1, 1))
         out.append(f'<line x1="{x}" x2="{x}" y1="{TOP - 6}" y2="{bottom}" stroke="#dddddd"/>')
-        if year <= last_year:
+        if year <= last_year and (year - first_year) % step == 0:
             mid = (x + scale.x(datetime.date(year + 1, 1, 1))) / 2
             out.append(
                 f'<text x="{round(mid, 2)}" y="{TOP - 10}" text-anchor="middle">{year}</text>'
