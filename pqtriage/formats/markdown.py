@@ -26,6 +26,16 @@ def _date(value: object) -> str:
     return value.isoformat() if value is not None else "n/a"  # type: ignore[attr-defined]
 
 
+def _start_by(value: object, as_of: object) -> str:
+    """A start-by date, marked overdue when it has passed."""
+    if value is None:
+        return "n/a"
+    text = value.isoformat()  # type: ignore[attr-defined]
+    if as_of is not None and value <= as_of:  # type: ignore[operator]
+        return f"{text} (overdue)"
+    return text
+
+
 def _table(header: Sequence[str], rows: Sequence[Sequence[str]]) -> list[str]:
     lines = ["| " + " | ".join(header) + " |", "|" + "|".join("---" for _ in header) + "|"]
     lines += ["| " + " | ".join(row) + " |" for row in rows]
@@ -60,15 +70,17 @@ def executive_summary(result: TriageResult) -> list[str]:
             + ", ".join(md(i) for i in s.overdue) + "."
         )
         lines.append("")
-    if s.earliest_start_by:
-        lines.append(f"Earliest start-by date: {s.earliest_start_by.isoformat()}.")
+    upcoming = sorted(i.start_by for i in result.items if i.start_by and i.start_by > result.as_of)
+    if upcoming:
+        lines.append(f"Next start-by date still ahead: {upcoming[0].isoformat()}.")
         lines.append("")
     top = [i for i in result.items if i.verdict in (Verdict.CLASSICALLY_BROKEN, Verdict.EXPOSED)][:5]
     if top:
         lines.append("Migrate first:")
         lines.append("")
         for item in top:
-            lines.append(f"{item.rank}. {md(item.system.name)} ({md(item.system.id)}): {md(item.reason)}")
+            why = item.weakest.reason if item.weakest else item.reason
+            lines.append(f"{item.rank}. {md(item.system.name)} ({md(item.system.id)}): {md(why)}")
         lines.append("")
     return lines
 
@@ -85,7 +97,7 @@ def ranked_table(result: TriageResult) -> list[str]:
             md(weakest.use.purpose.value) if weakest else "n/a",
             f"{weakest.x_years:g}" if weakest else "n/a",
             f"{item.system.migration_years:g}",
-            _date(item.start_by),
+            _start_by(item.start_by, result.as_of),
             _pct(item.exposure_probability),
             VERDICT_LABEL[item.verdict],
             md(short_replacement(weakest.replacement if weakest else None)),
@@ -104,7 +116,7 @@ def ranked_table(result: TriageResult) -> list[str]:
     return lines
 
 
-def system_detail(item: SystemAssessment) -> list[str]:
+def system_detail(item: SystemAssessment, as_of: object = None) -> list[str]:
     """One system: its facts, then each use with its numbers and reason."""
     system = item.system
     lines = [f"### {item.rank}. {md(system.name)}", ""]
@@ -115,7 +127,7 @@ def system_detail(item: SystemAssessment) -> list[str]:
         ("Migration y", f"{system.migration_years:g} years" + (" (assumed)" if "migration_years" in system.assumed else "")),
         ("Exposure probability", _pct(item.exposure_probability)),
         ("Margin", _margin(item.margin_years) + " years"),
-        ("Start by", _date(item.start_by)),
+        ("Start by", _start_by(item.start_by, as_of)),
         ("Criticality / exposure", f"{system.criticality.value} / {system.exposure.value}"),
     ]
     if system.owner:
@@ -221,7 +233,7 @@ def render_report(result: TriageResult, extra_sections: Sequence[str] = ()) -> s
     lines += ranked_table(result)
     lines += ["## System detail", ""]
     for item in result.items:
-        lines += system_detail(item)
+        lines += system_detail(item, result.as_of)
     for section in extra_sections:
         lines += [section.rstrip("\n"), ""]
     lines += method_section(result)
