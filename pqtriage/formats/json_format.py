@@ -116,6 +116,12 @@ def result_dict(result: TriageResult) -> dict[str, Any]:
             "earliest_start_by": summary.earliest_start_by.isoformat() if summary.earliest_start_by else None,
         },
         "items": [system_dict(i) for i in result.items],
+        "arrivals": [
+            {"algorithm": a.algorithm, "crqc_year": _number(a.crqc_year, 2),
+             "shift_years": _number(a.shift_years, 2), "beyond_horizon": math.isinf(a.crqc_year),
+             "basis": a.basis}
+            for a in result.arrivals
+        ],
         "assumptions": assumptions(result),
         "cautions": list(CAUTIONS),
         "sources": list(SOURCES),

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import math
 from collections.abc import Sequence
 
 from pqtriage import __version__
@@ -204,9 +205,15 @@ def method_section(result: TriageResult) -> list[str]:
     )
     lines.append("")
     if result.arrivals:
-        lines.append("Arrivals used (z at the risk tolerance, per algorithm):")
+        lines.append("Arrivals used (z at the risk tolerance, per algorithm, and the shift against the "
+                     "reference task with its basis):")
         lines.append("")
-        lines += _table(["Algorithm", "z (year)"], [[md(n), fmt_year(y)] for n, y in result.arrivals])
+        lines += _table(
+            ["Algorithm", "z (year)", "Shift (years)", "Basis"],
+            [[md(a.algorithm), fmt_year(a.crqc_year),
+              "beyond horizon" if math.isinf(a.shift_years) else f"{a.shift_years:+.1f}", md(a.basis)]
+             for a in result.arrivals],
+        )
         lines.append("")
     return lines
 

@@ -17,6 +17,7 @@ from pqtriage.model.mosca import evaluate_use
 from pqtriage.model.profile import ThreatProfile
 from pqtriage.model.verdict import (
     SEVERITY,
+    ArrivalUsed,
     Summary,
     SystemAssessment,
     TriageResult,
@@ -151,7 +152,8 @@ def triage(
     """
     cache: dict[tuple, Resolution] = {}
     assessed: list[SystemAssessment] = []
-    arrivals: dict[str, float] = {}
+    arrivals: dict[str, ArrivalUsed] = {}
+    explain = getattr(arrival, "explain", None)
     for system in inventory.systems:
         uses = tuple(
             evaluate_use(use, system, _resolve(catalog, use, cache), profile, arrival, as_of)
@@ -159,8 +161,14 @@ def triage(
         )
         for use in uses:
             spec = use.deciding or use.spec
-            if spec is not None and use.crqc_year is not None:
-                arrivals[spec.name] = use.crqc_year
+            if spec is not None and use.crqc_year is not None and spec.name not in arrivals:
+                basis = ""
+                if explain is not None and spec.quantum_attack != "none":
+                    basis = str(getattr(explain(spec), "explanation", ""))
+                elif spec.quantum_attack == "none":
+                    basis = "no known quantum attack"
+                arrivals[spec.name] = ArrivalUsed(spec.name, use.crqc_year, use.shift_years
+                                                  if use.shift_years is not None else math.inf, basis)
         assessed.append(_assess_system(system, uses))
     ordered = sorted(assessed, key=rank_key)
     ranked: list[SystemAssessment] = []
@@ -177,5 +185,5 @@ def triage(
     return TriageResult(
         inventory=inventory, items=items, summary=summarize(items, as_of), as_of=as_of,
         profile=profile, arrival_model=arrival.name,
-        arrivals=tuple(sorted(arrivals.items(), key=lambda kv: (kv[1], kv[0]))),
+        arrivals=tuple(sorted(arrivals.values(), key=lambda a: (a.crqc_year, a.algorithm))),
     )

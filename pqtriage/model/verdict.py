@@ -134,5 +134,19 @@ class TriageResult:
     """The threat profile used."""
     arrival_model: str
     """Description of how per-algorithm arrivals were set."""
-    arrivals: tuple[tuple[str, float], ...] = ()
-    """(algorithm name, decimal year of z at tolerance) for each distinct algorithm used."""
+    arrivals: tuple[ArrivalUsed, ...] = ()
+    """The arrival of each distinct algorithm used, earliest first."""
+
+
+@dataclass(frozen=True)
+class ArrivalUsed:
+    """When one algorithm falls, as this run computed it."""
+
+    algorithm: str
+    """Catalog name."""
+    crqc_year: float
+    """Decimal year of z at the risk tolerance (inf beyond the horizon)."""
+    shift_years: float
+    """Shift against the reference task (inf beyond the horizon)."""
+    basis: str
+    """One sentence with the numbers behind the shift."""
