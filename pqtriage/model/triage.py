@@ -167,6 +167,10 @@ def triage(
                     basis = str(getattr(explain(spec), "explanation", ""))
                 elif spec.quantum_attack == "none":
                     basis = "no known quantum attack"
+                elif math.isinf(use.crqc_year):
+                    basis = "Grover only, at least 128 bits of classical strength: beyond the horizon"
+                else:
+                    basis = "falls with the reference task (shared arrival)"
                 arrivals[spec.name] = ArrivalUsed(spec.name, use.crqc_year, use.shift_years
                                                   if use.shift_years is not None else math.inf, basis)
         assessed.append(_assess_system(system, uses))
