@@ -237,7 +237,7 @@ class _BomReader:
         children = {r: tuple(self.edges.get(r, []) + self.nested.get(r, [])) for r in self.crypto}
         builder = UseBuilder(self.path, self.crypto, self.positions, children)
         ordered = [r for r in self.nodes if r in carriers]
-        depends = self._system_edges(set(ordered))
+        depends = self._system_edges(ordered)
         systems = []
         for ref in ordered:
             uses = [u for c in carriers[ref] for u in builder.uses_of(c)]
@@ -252,9 +252,10 @@ class _BomReader:
                 " time (the BOM cannot carry them); give real values in a CBOM side file")
         return systems
 
-    def _system_edges(self, systems: set[str]) -> dict[str, tuple[str, ...]]:
+    def _system_edges(self, ordered: list[str]) -> dict[str, tuple[str, ...]]:
+        systems = set(ordered)
         graph: dict[str, tuple[str, ...]] = {}
-        for ref in systems:
+        for ref in ordered:
             found: list[str] = []
             seen = {ref}
             queue = deque(self.edges.get(ref, []))
