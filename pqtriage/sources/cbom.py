@@ -6,7 +6,8 @@ Grouping rule (docs/interop.md, "CBOM import"):
 
 - A *system* is a non-crypto component (application, library, device, service, the BOM's
   ``metadata.component`` ...) that depends on at least one cryptographic asset, through
-  ``dependencies[].dependsOn`` or by nesting the asset in its ``components``. Its id is its bom-ref.
+  ``dependencies[].dependsOn`` or by nesting the asset in its ``components``, or that carries
+  a ``pqtriage:shelf_life_years`` property (written by ``--format cbom``). Its id is its bom-ref.
 - Each asset a system depends on directly is a *carrier*; it becomes one or more uses
   (:mod:`pqtriage.sources.cbom_assets`). Assets a carrier refers to (a protocol's algorithms,
   a certificate's key) are parts of that carrier's uses, not uses of their own.
@@ -236,11 +237,13 @@ class _BomReader:
         carriers, orphans = self._carriers()
         children = {r: tuple(self.edges.get(r, []) + self.nested.get(r, [])) for r in self.crypto}
         builder = UseBuilder(self.path, self.crypto, self.positions, children)
-        ordered = [r for r in self.nodes if r in carriers]
+        # A component pqtriage exported as a system stays one even when it lists no use yet.
+        ordered = [r for r in self.nodes if r in carriers
+                   or PROPERTY_PREFIX + "shelf_life_years" in properties_of(self.nodes[r])]
         depends = self._system_edges(ordered)
         systems = []
         for ref in ordered:
-            uses = [u for c in carriers[ref] for u in builder.uses_of(c)]
+            uses = [u for c in carriers.get(ref, []) for u in builder.uses_of(c)]
             systems.append(self._system(ref, self.nodes[ref], uses, depends.get(ref, ())))
         for ref in orphans:
             systems.append(self._system(ref, self.crypto[ref], builder.uses_of(ref), ()))

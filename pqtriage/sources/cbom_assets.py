@@ -257,7 +257,9 @@ class UseBuilder:
         kind = text_of(props.get("type"))
         label = " ".join(x for x in (PROTOCOL_LABEL.get(kind or "", kind), text_of(props.get("version"))) if x)
         label = label or text_of(component.get("name")) or ref
-        inner = context.into(ref, protocol=label, key_size=None)
+        own = properties_of(component).get("pqtriage:purpose")
+        purpose = Purpose(own) if own in {p.value for p in Purpose} else context.purpose
+        inner = context.into(ref, protocol=label, key_size=None, purpose=purpose)
         uses: list[CryptoUse] = []
         for suite in props.get("cipherSuites", []) if isinstance(props.get("cipherSuites"), list) else []:
             uses += self._suite(ref, mapping_of(suite), inner, depth)
@@ -299,7 +301,7 @@ class UseBuilder:
             if key_size is None and props.get("primitive") in _ASYMMETRIC and param and param.isdigit() \
                     and len(param) < 6 and not text_of(props.get("curve")):
                 key_size = int(param)
-        return [CryptoUse(Purpose.KEY_ESTABLISHMENT, name, key_size=key_size, curve=curve,
+        return [CryptoUse(context.purpose or Purpose.KEY_ESTABLISHMENT, name, key_size=key_size, curve=curve,
                           protocol=context.protocol, source=self.source(context, ref))]
 
     def _material(self, ref: str, component: dict[str, Any], crypto: dict[str, Any],
