@@ -7,6 +7,7 @@ import typer
 
 def register(app: typer.Typer) -> None:
     """Add every feature command to the app (modules are imported when a command runs)."""
-    from pqtriage.commands import estimate
+    from pqtriage.commands import estimate, interop
 
     estimate.register(app)
+    interop.register(app)
