@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from enum import Enum
-from typing import Any, Optional
+from typing import Any
 
 import typer
 
@@ -16,7 +16,7 @@ class DiffFormat(str, Enum):
     json = "json"
 
 
-def _write(text: str, output: Optional[str]) -> None:
+def _write(text: str, output: str | None) -> None:
     if output and output != "-":
         from pqtriage.output import write_atomic
 
@@ -25,7 +25,7 @@ def _write(text: str, output: Optional[str]) -> None:
         typer.echo(text, nl=not text.endswith("\n"))
 
 
-def load_review(path: str, profile: Optional[str], as_of: Any, cbom_defaults: Optional[str]) -> Any:
+def load_review(path: str, profile: str | None, as_of: Any, cbom_defaults: str | None) -> Any:
     """A Review from a JSON result file, or from an inventory (YAML or CycloneDX) triaged now."""
     from pqtriage.errors import InventoryError, Place
     from pqtriage.model.diff import review_of_json, review_of_result
@@ -60,7 +60,7 @@ def register(app: typer.Typer) -> None:
 
     @app.command("schema")
     def schema(
-        output: Optional[str] = typer.Option(None, "--output", "-o", help="Write to this file instead of stdout."),
+        output: str | None = typer.Option(None, "--output", "-o", help="Write to this file instead of stdout."),
     ) -> None:
         """Print the JSON Schema of the inventory format (for editors and CI validation)."""
         import json
@@ -74,10 +74,10 @@ def register(app: typer.Typer) -> None:
         old: str = typer.Argument(..., help="Earlier review: an inventory or a 'triage --format json' result."),
         new: str = typer.Argument(..., help="Later review: an inventory or a 'triage --format json' result."),
         output_format: DiffFormat = typer.Option(DiffFormat.table, "--format", "-f", help="table, markdown or json."),
-        output: Optional[str] = typer.Option(None, "--output", "-o", help="Write to this file instead of stdout."),
-        profile: Optional[str] = typer.Option(None, "--profile", help="Threat profile for inventories (not for JSON results)."),
-        as_of: Optional[str] = typer.Option(None, "--as-of", help="Date treated as today for inventories (YYYY-MM-DD)."),
-        cbom_defaults: Optional[str] = typer.Option(None, "--cbom-defaults", help="CBOM side file (shelf-life, migration time) for CycloneDX inputs."),
+        output: str | None = typer.Option(None, "--output", "-o", help="Write to this file instead of stdout."),
+        profile: str | None = typer.Option(None, "--profile", help="Threat profile for inventories (not for JSON results)."),
+        as_of: str | None = typer.Option(None, "--as-of", help="Date treated as today for inventories (YYYY-MM-DD)."),
+        cbom_defaults: str | None = typer.Option(None, "--cbom-defaults", help="CBOM side file (shelf-life, migration time) for CycloneDX inputs."),
     ) -> None:
         """Compare two reviews: systems migrated, improved, worsened, new and removed."""
         from pqtriage.formats.diff_view import markdown_section, render_json, terminal_view

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import csv
 import io
+import math
 
 from pqtriage.formats.interface import ResultFormat
 from pqtriage.formats.table import short_replacement
@@ -25,7 +26,7 @@ COLUMNS: tuple[str, ...] = (
 
 
 def _number(value: float | None, digits: int) -> str:
-    if value is None or value != value or value in (float("inf"), float("-inf")):
+    if value is None or not math.isfinite(value):
         return ""
     return f"{round(value, digits):g}"
 

@@ -63,10 +63,10 @@ def _md_row(cells: list[str]) -> str:
 
 def markdown_section(diff: Diff, heading: str = "## Changes since the previous review") -> str:
     """A Markdown section: summary line, counts table, then each change group."""
-    lines = [heading, "",
-             f"From {markdown_text(diff.old.label)} (as of {diff.old.as_of}, profile "
-             f"{markdown_text(diff.old.profile)}) to {markdown_text(diff.new.label)} (as of {diff.new.as_of}, "
-             f"profile {markdown_text(diff.new.profile)}): {_headline(diff)}.", ""]
+    summary = (f"From {markdown_text(diff.old.label)} (as of {diff.old.as_of}, profile "
+               f"{markdown_text(diff.old.profile)}) to {markdown_text(diff.new.label)} (as of {diff.new.as_of}, "
+               f"profile {markdown_text(diff.new.profile)}): {_headline(diff)}.")
+    lines = [heading, "", summary, ""]
     lines += [_md_row(["Verdict", "Before", "Now", "Change"]), "| --- | ---: | ---: | ---: |"]
     lines += [_md_row([v.value, str(b), str(n), f"{n - b:+d}"]) for v, b, n in diff.counts]
     lines.append("")

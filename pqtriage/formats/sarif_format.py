@@ -25,7 +25,14 @@ from pqtriage import __version__
 from pqtriage.formats.interface import ResultFormat
 from pqtriage.formats.table import short_replacement
 from pqtriage.formats.text import visible
-from pqtriage.model.verdict import SEVERITY, VERDICT_MEANING, SystemAssessment, TriageResult, UseAssessment, Verdict
+from pqtriage.model.verdict import (
+    SEVERITY,
+    VERDICT_MEANING,
+    SystemAssessment,
+    TriageResult,
+    UseAssessment,
+    Verdict,
+)
 
 SARIF_VERSION = "2.1.0"
 SARIF_SCHEMA = "https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/schemas/sarif-schema-2.1.0.json"
@@ -116,7 +123,7 @@ def result_entry(item: SystemAssessment, use: UseAssessment, rule_index: int, in
         message += f" (found at {target})"
     detail = use.use.source.detail if use.use.source and use.use.source.detail else ""
     fingerprint = hashlib.sha256(
-        "\x1f".join([item.system.id, use.use.algorithm, use.use.purpose.value, detail]).encode("utf-8")
+        f"{item.system.id}\x1f{use.use.algorithm}\x1f{use.use.purpose.value}\x1f{detail}".encode()
     ).hexdigest()
     properties: dict[str, Any] = {"system": visible(item.system.id), "verdict": use.verdict.value,
                                   "purpose": use.use.purpose.value, "rank": item.rank}

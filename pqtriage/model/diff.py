@@ -108,7 +108,7 @@ def review_of_json(data: dict[str, Any], label: str) -> Review:
     systems = []
     for index, item in enumerate(data["items"], start=1):
         if not isinstance(item, dict) or not isinstance(item.get("id"), str):
-            raise ValueError(f"item {index} has no id")
+            raise ValueError(f"item {index} has no id")  # noqa: TRY004 - bad input, not a bug
         try:
             verdict = Verdict(item.get("verdict"))
         except ValueError as exc:
@@ -119,7 +119,7 @@ def review_of_json(data: dict[str, Any], label: str) -> Review:
             int(item["rank"]) if isinstance(item.get("rank"), int) else index,
             float(probability) if isinstance(probability, (int, float)) else None,
         ))
-    profile = data.get("profile") if isinstance(data.get("profile"), dict) else {}
+    profile = data["profile"] if isinstance(data.get("profile"), dict) else {}
     return Review(label=label, as_of=str(data.get("as_of", "")), profile=str(profile.get("name", "")),
                   systems=tuple(systems))
 

@@ -28,8 +28,20 @@ from typing import Any
 
 from pqtriage.errors import InventoryError, Place
 from pqtriage.model.inventory import Criticality, CryptoUse, Exposure, Inventory, SourceRef, System
-from pqtriage.sources.cbom_assets import Positions, UseBuilder, mapping_of, properties_of, refs_of, text_of
-from pqtriage.sources.cbom_side import BUILTIN_DEFAULTS, SIDE_SYSTEM_FIELDS, CbomSideFile, load_side_file
+from pqtriage.sources.cbom_assets import (
+    Positions,
+    UseBuilder,
+    mapping_of,
+    properties_of,
+    refs_of,
+    text_of,
+)
+from pqtriage.sources.cbom_side import (
+    BUILTIN_DEFAULTS,
+    SIDE_SYSTEM_FIELDS,
+    CbomSideFile,
+    load_side_file,
+)
 from pqtriage.sources.interface import InventorySource, read_input
 from pqtriage.sources.yaml_inventory import find_cycle
 from pqtriage.yamlio import MAX_FILE_BYTES, decode_text

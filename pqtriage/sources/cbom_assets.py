@@ -24,7 +24,7 @@ import bisect
 import datetime as dt
 import json
 import re
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Any
 
 from pqtriage.model.inventory import CryptoUse, Purpose, SourceRef
@@ -150,12 +150,9 @@ class _Context:
 
     def into(self, ref: str, **changes: Any) -> _Context:
         """The context for a part this asset refers to."""
-        values = {"carrier": self.carrier, "protocol": self.protocol, "purpose": self.purpose,
-                  "key_size": self.key_size, "trust_years": self.trust_years}
-        values.update(changes)
         last = self.via[-1] if self.via else self.carrier
-        via = self.via if ref == last else self.via + (ref,)
-        return _Context(via=via, **values)
+        via = self.via if ref == last else (*self.via, ref)
+        return replace(self, via=via, **changes)
 
 
 class UseBuilder:
@@ -218,7 +215,8 @@ class UseBuilder:
             key_size = int(parameter_set)
         curve = text_of(props.get("curve")) or text_of(props.get("ellipticCurve"))
         own = properties_of(component)
-        purpose, assumed = context.purpose, ()
+        purpose = context.purpose
+        assumed: tuple[str, ...] = ()
         if own.get("pqtriage:purpose") in {p.value for p in Purpose}:
             purpose = Purpose(own["pqtriage:purpose"])
         if purpose is None:
@@ -349,8 +347,8 @@ def algorithm_purpose(props: dict[str, Any]) -> Purpose | None:
 def validity_years(props: dict[str, Any]) -> float | None:
     """Length of a certificate's validity in years, from notValidBefore and notValidAfter."""
     try:
-        start = dt.datetime.fromisoformat(str(props["notValidBefore"]).replace("Z", "+00:00"))
-        end = dt.datetime.fromisoformat(str(props["notValidAfter"]).replace("Z", "+00:00"))
+        start = dt.datetime.fromisoformat(str(props["notValidBefore"]))  # 3.11+ reads a "Z" suffix
+        end = dt.datetime.fromisoformat(str(props["notValidAfter"]))
     except (KeyError, ValueError):
         return None
     if start.tzinfo is None or end.tzinfo is None:

@@ -100,12 +100,13 @@ def test_each_use_keeps_its_bom_ref_and_line(tmp_path: Path) -> None:
 
 
 def test_unknown_algorithms_are_unassessed_uses(tmp_path: Path) -> None:
+    import datetime as dt
+
     from pqtriage.catalog import load_catalog
     from pqtriage.model.arrival import SharedArrival
     from pqtriage.model.triage import triage
     from pqtriage.model.verdict import Verdict
     from pqtriage.sources.profile_file import load_profile
-    import datetime as dt
 
     inventory = load_inventory(_write(tmp_path, cbom_text()))
     result = triage(inventory, load_catalog(), load_profile(None), SharedArrival(), dt.date(2026, 12, 1))
@@ -206,9 +207,9 @@ def test_cyclonedx_17_additions_are_read(tmp_path: Path) -> None:
         ("key-establishment", "X25519MLKEM768", None, None, "TLS 1.3"),
         ("authentication", "ecdsa_secp256r1_sha256", None, None, "TLS 1.3"),
     ]
-    assert inventory.warnings == (
-        f"{tmp_path / 'scan.cdx.json'}: 1 of 1 systems use assumed shelf-life or migration time (the BOM"
-        " cannot carry them); give real values in a CBOM side file",)
+    expected = (f"{tmp_path / 'scan.cdx.json'}: 1 of 1 systems use assumed shelf-life or migration time"
+                " (the BOM cannot carry them); give real values in a CBOM side file")
+    assert inventory.warnings == (expected,)
 
 
 def test_dangling_reference_is_an_unassessed_use_and_a_warning(tmp_path: Path) -> None:
