@@ -40,6 +40,9 @@ class ResultFormatChoice(str, Enum):
     table = "table"
     json = "json"
     markdown = "markdown"
+    csv = "csv"
+    sarif = "sarif"
+    cbom = "cbom"
 
 
 class VerdictChoice(str, Enum):
@@ -54,13 +57,19 @@ class VerdictChoice(str, Enum):
 
 def result_formats() -> dict[str, Any]:
     """Every --format choice mapped to its formatter (None = terminal table)."""
+    from pqtriage.formats.cbom_format import CbomFormat
+    from pqtriage.formats.csv_format import CsvFormat
     from pqtriage.formats.json_format import JsonFormat
     from pqtriage.formats.markdown import MarkdownFormat
+    from pqtriage.formats.sarif_format import SarifFormat
 
     return {
         ResultFormatChoice.table.value: None,
         ResultFormatChoice.json.value: JsonFormat(),
         ResultFormatChoice.markdown.value: MarkdownFormat(),
+        ResultFormatChoice.csv.value: CsvFormat(),
+        ResultFormatChoice.sarif.value: SarifFormat(),
+        ResultFormatChoice.cbom.value: CbomFormat(),
     }
 
 
