@@ -113,6 +113,7 @@ def _root(
 
 PROFILE_HELP = "Threat profile: a shipped name (survey-2025-upper, survey-2025-lower) or a YAML file."
 AS_OF_HELP = "Date treated as today (YYYY-MM-DD), for reproducible reports."
+CBOM_DEFAULTS_HELP = "For a CycloneDX input: YAML side file with shelf-life, migration time and other values a CBOM cannot carry."
 
 
 @app.command("triage")
@@ -124,11 +125,12 @@ def triage_command(
     as_of: Optional[str] = typer.Option(None, "--as-of", help=AS_OF_HELP),
     top: Optional[int] = typer.Option(None, "--top", min=1, help="Show only the N most urgent systems (table)."),
     fail_on: Optional[VerdictChoice] = typer.Option(None, "--fail-on", help="Exit 1 if any system is at or above this verdict."),
+    cbom_defaults: Optional[str] = typer.Option(None, "--cbom-defaults", help=CBOM_DEFAULTS_HELP),
 ) -> None:
     """Rank the inventory's systems by post-quantum exposure."""
     from pqtriage.pipeline import parse_as_of, run_triage
 
-    result = run_triage(inventory, profile, parse_as_of(as_of))
+    result = run_triage(inventory, profile, parse_as_of(as_of), cbom_defaults)
     formatter = result_formats()[output_format.value]
     if formatter is None:
         from pqtriage.formats.table import terminal_view
@@ -162,6 +164,7 @@ def report_command(
     policy: Optional[List[str]] = typer.Option(None, "--policy", help="Policy timeline for the plan section (repeatable); added to those the inventory names."),
     capacity: Optional[str] = typer.Option(None, "--capacity", help="Plan capacity: migrations in parallel (3), person-weeks per quarter (40pw), or both."),
     fail_on: Optional[VerdictChoice] = typer.Option(None, "--fail-on", help="Exit 1 if any system is at or above this verdict."),
+    cbom_defaults: Optional[str] = typer.Option(None, "--cbom-defaults", help=CBOM_DEFAULTS_HELP),
 ) -> None:
     """Write the Markdown report for the compliance file (ranking, plan, sensitivity)."""
     from pathlib import Path
@@ -174,7 +177,7 @@ def report_command(
     from pqtriage.plan.markdown import plan_section
     from pqtriage.plan.svg import plan_svg
 
-    run = prepare(inventory, profile, parse_as_of(as_of))
+    run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults)
     result = run.result
     the_plan = run.plan(tuple(policy or ()), capacity)
     to_file = bool(output and output != "-")
@@ -196,13 +199,14 @@ def report_command(
 def check_command(
     inventory: str = typer.Argument(..., help="Inventory file to validate."),
     strict: bool = typer.Option(False, "--strict", help="Treat warnings (dependencies outside the file) as errors."),
+    cbom_defaults: Optional[str] = typer.Option(None, "--cbom-defaults", help=CBOM_DEFAULTS_HELP),
 ) -> None:
-    """Validate an inventory file; report unknown algorithms."""
+    """Validate an inventory file (YAML or CycloneDX); report unknown algorithms."""
     from pqtriage.catalog import load_catalog
     from pqtriage.formats.text import visible
-    from pqtriage.sources.loading import load_inventory
+    from pqtriage.pipeline import load_any
 
-    inv = load_inventory(inventory)
+    inv = load_any(inventory, cbom_defaults)
     catalog = load_catalog()
     console = _console(stderr=True)
     unknown = 0

@@ -36,9 +36,11 @@ def arrival_model_for(profile: ThreatProfile) -> ArrivalModel:
     return ResourceArrivalModel(doubling_years=profile.qubit_doubling_years)
 
 
-def run_triage(inventory_path: str, profile_name: str | None, as_of: dt.date) -> TriageResult:
+def run_triage(
+    inventory_path: str, profile_name: str | None, as_of: dt.date, cbom_defaults: str | None = None
+) -> TriageResult:
     """Load the inventory and profile, then triage."""
-    return prepare(inventory_path, profile_name, as_of).result
+    return prepare(inventory_path, profile_name, as_of, cbom_defaults).result
 
 
 @dataclass(frozen=True)
@@ -72,13 +74,25 @@ class TriageRun:
                           parse_capacity(capacity), DEFAULT_SETTINGS)
 
 
-def prepare(inventory_path: str, profile_name: str | None, as_of: dt.date) -> TriageRun:
-    """Load the inventory and profile, triage, and keep the parts."""
+def load_any(inventory_path: str, cbom_defaults: str | None = None) -> Any:
+    """Read a YAML inventory or a CycloneDX CBOM (with its side file of shelf-life and migration time)."""
+    if cbom_defaults is None:
+        from pqtriage.sources.loading import load_inventory
+
+        return load_inventory(inventory_path)
+    from pqtriage.sources.cbom import load_inventory_with_side_file
+
+    return load_inventory_with_side_file(inventory_path, cbom_defaults)
+
+
+def prepare(
+    inventory_path: str, profile_name: str | None, as_of: dt.date, cbom_defaults: str | None = None
+) -> TriageRun:
+    """Load the inventory (with a CBOM side file, if any) and profile, triage, keep the parts."""
     from pqtriage.catalog import load_catalog
-    from pqtriage.sources.loading import load_inventory
     from pqtriage.sources.profile_file import load_profile
 
-    inventory = load_inventory(inventory_path)
+    inventory = load_any(inventory_path, cbom_defaults)
     profile = load_profile(profile_name)
     catalog = load_catalog()
     arrival = arrival_model_for(profile)

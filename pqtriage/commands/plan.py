@@ -50,6 +50,7 @@ def register(app: typer.Typer) -> None:
         profile: Optional[str] = typer.Option(None, "--profile", help="Threat profile (shipped name or YAML file)."),
         as_of: Optional[str] = typer.Option(None, "--as-of", help="Date treated as today (YYYY-MM-DD)."),
         sensitivity: bool = typer.Option(False, "--sensitivity", help="Also show which systems change verdict if the CRQC moves -5..+5 years."),
+        cbom_defaults: Optional[str] = typer.Option(None, "--cbom-defaults", help="For a CycloneDX input: YAML side file with values a CBOM cannot carry."),
     ) -> None:
         """Plan the migration: deadlines per system, schedule under capacity, critical path."""
         import json
@@ -64,7 +65,7 @@ def register(app: typer.Typer) -> None:
         from pqtriage.plan.svg import plan_svg
         from pqtriage.plan.view import plan_view
 
-        run = prepare(inventory, profile, parse_as_of(as_of))
+        run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults)
         the_plan = run.plan(tuple(policy or ()), capacity)
         console = Console(highlight=False)
         if output_format == PlanFormat.table:
