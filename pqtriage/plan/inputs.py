@@ -13,19 +13,8 @@ from dataclasses import dataclass
 from typing import Literal
 
 VendorReadiness = Literal["available", "announced", "unknown"]
-VENDOR_READINESS: tuple[str, ...] = ("available", "announced", "unknown")
-"""Post-quantum support from the system's vendors: available now, announced (expected
-within about a year) or unknown."""
-
-POLICY_CATEGORIES: tuple[str, ...] = (
-    "software-firmware-signing",
-    "web-cloud",
-    "networking",
-    "operating-system",
-    "niche",
-    "custom-legacy",
-)
-"""System categories of CNSA 2.0 (NSA, 2022; FAQ 2024), as a system's policy_category."""
+# Defined once with the inventory format; re-exported here for the planner.
+from pqtriage.sources.schema import POLICY_CATEGORIES, VENDOR_READINESS  # noqa: E402
 
 HIGH_PRIORITY_CRITICALITIES: tuple[str, ...] = ("critical", "high")
 """Criticalities that make a system high-priority (or high-risk) for the policies that
