@@ -103,7 +103,8 @@ class ResourceArrivalModel:
     def _shor_qubits(self, family: str, bits: int, strength: int | None) -> float | None:
         method = select_method(family, self.methods.get(family), self.data)
         logical = logical_resources(method, family, bits, strength)
-        return physical_resources(logical, self.params, self.data.surface_code).physical_qubits
+        physical = physical_resources(logical, self.params, self.data.surface_code, method.layout)
+        return physical.physical_qubits
 
     def _grover_qubits_log2(self, spec: AlgorithmSpec) -> tuple[float, str]:
         assert spec.grover_target is not None and spec.problem_bits is not None

@@ -44,7 +44,11 @@ def test_json_for_one_algorithm_states_the_method() -> None:
 def test_working_view_mentions_the_default_and_sources() -> None:
     text = render(run("RSA-2048"))  # type: ignore[arg-type]
     assert "2505.15917 (default)" in text
-    assert "arXiv:1905.09749" in text and "arXiv:1812.01238" in text
+    # The default's own layout: yoked storage and cultivation sites, not 72-tile factories.
+    assert "arXiv:1905.09749" in text and "arXiv:2312.04522" in text
+    assert "arXiv:2409.17595" in text and "arXiv:1812.01238" not in text
+    generic = render(run("RSA-2048", method="1905.09749"))  # type: ignore[arg-type]
+    assert "arXiv:1812.01238" in generic and "arXiv:2312.04522" not in generic
 
 
 def test_all_lists_every_attackable_algorithm_once() -> None:
