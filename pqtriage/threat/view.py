@@ -132,7 +132,7 @@ def key_figures(estimate: Estimate) -> list[tuple[str, str]]:
         else:
             tolerance = arrival.risk_tolerance or 0.0
             rows.append(("falls (median)", year_label(arrival.median_year)))
-            rows.append((f"falls (at {tolerance:.0%} tolerance)", year_label(arrival.cautious_year)))
+            rows.append((f"falls ({tolerance:.0%} risk)", year_label(arrival.cautious_year)))
     return rows
 
 
@@ -181,8 +181,9 @@ def _years_sentence(arrival: ArrivalRow) -> str:
     as_of = arrival.as_of_year or 0.0
     return (
         f"years: quantiles of profile {arrival.profile} shifted by {arrival.shift_years:+.1f} "
-        f"years, given no CRQC by {as_of:.2f} (median, and {arrival.risk_tolerance or 0:.0%} "
-        "risk tolerance); estimates are uncertain and official guidance comes first"
+        f"years, given no CRQC by {as_of:.2f}: median, and the year its probability reaches the "
+        f"{arrival.risk_tolerance or 0:.0%} risk tolerance. Estimates are uncertain; official "
+        "guidance comes first."
     )
 
 
