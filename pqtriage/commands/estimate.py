@@ -33,15 +33,14 @@ def register(app: typer.Typer) -> None:
         as_of: Optional[str] = typer.Option(None, "--as-of", help="Assessment date YYYY-MM-DD for the years (default today)."),
     ) -> None:
         """Estimate the quantum resources that break an algorithm, and when it falls."""
+        import datetime as dt
+
         from pqtriage.catalog import load_catalog
         from pqtriage.errors import UsageError
+        from pqtriage.model.profile import decimal_year
         from pqtriage.sources.profile_file import load_profile
         from pqtriage.threat.command import estimate_command
         from pqtriage.threat.parameters import ThreatParameters
-
-        import datetime as dt
-
-        from pqtriage.model.profile import decimal_year
 
         if not all_ and not algorithm:
             raise UsageError("name an algorithm or pass --all", hint="for example: pqtriage estimate RSA-2048")

@@ -133,11 +133,13 @@ def _context(
     as_of_label: str | None,
 ) -> TableContext:
     """The legend's facts: methods in use, assumptions, profile, and method caveats."""
-    targets = dict(zip(
-        ("factoring", "finite-field-dlog", "elliptic-curve-dlog", "key-search", "preimage"),
-        TARGETS,
-        strict=True,
-    ))
+    targets = dict(
+        zip(
+            ("factoring", "finite-field-dlog", "elliptic-curve-dlog", "key-search", "preimage"),
+            TARGETS,
+            strict=True,
+        )
+    )
     seen: dict[tuple[str, str], bool] = {}
     for e in estimates:
         if e.method is not None and e.problem in targets:
@@ -146,9 +148,7 @@ def _context(
     notes: list[str] = []
     with_layout = {m.id for m in data.shor_methods if m.layout is not None}
     used = {method for _, method, _ in methods}
-    generic_curves = [
-        m for t, m, _ in methods if t == "curves" and m not in with_layout
-    ]
+    generic_curves = [m for t, m, _ in methods if t == "curves" and m not in with_layout]
     if used & with_layout and generic_curves:
         notes.append(
             f"Note: {', '.join(sorted(used & with_layout))} has a compact layout (dense storage, "

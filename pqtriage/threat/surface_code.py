@@ -121,7 +121,9 @@ def physical_resources(
     for distance in range(3, constants.max_distance + 1, 2):
         layer_seconds = max(params.reaction_seconds, params.cycle_seconds)
         if layout is None:
-            seconds_per_ccz = constants.factory_cycles_per_distance * distance * params.cycle_seconds
+            seconds_per_ccz = (
+                constants.factory_cycles_per_distance * distance * params.cycle_seconds
+            )
         else:
             # Serial Toffoli rate: one lattice-surgery step of k d cycles, at least one reaction.
             layer_seconds = max(

@@ -104,9 +104,7 @@ def compact_names(names: Sequence[str]) -> str:
             plain.append(name)
     parts = [f"{'/'.join(prefixes)}-{size}" for size, prefixes in sized.items()]
     if curves:
-        parts.append(
-            ", ".join(dict.fromkeys(curves)) + f" ({'/'.join(dict.fromkeys(schemes))})"
-        )
+        parts.append(", ".join(dict.fromkeys(curves)) + f" ({'/'.join(dict.fromkeys(schemes))})")
     return ", ".join(parts + plain)
 
 

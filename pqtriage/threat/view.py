@@ -8,7 +8,6 @@ Names from inputs are placed in :class:`rich.text.Text` objects, never parsed as
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
 from typing import Any
 
 from rich.console import Group, RenderableType
@@ -80,12 +79,6 @@ def _log2(value: float | None) -> str:
     return NOT_APPLICABLE if value is None else f"2^{value:.1f}"
 
 
-def _hours(value: float | None) -> str:
-    if value is None:
-        return NOT_APPLICABLE
-    return f"{value:.3g} h" if value < 48 else f"{value / 24:.3g} d"
-
-
 def _shift(estimate: Estimate) -> str:
     arrival = estimate.arrival
     if arrival is None:
@@ -114,7 +107,7 @@ def key_figures(estimate: Estimate) -> list[tuple[str, str]]:
             ("Toffoli count", _count(estimate.toffoli_count)),
             ("code distance", _count(estimate.code_distance)),
             ("physical qubits", _physical(estimate.physical_qubits)),
-            ("runtime per run", _hours(estimate.runtime_hours)),
+            ("runtime per run", compact_hours(estimate.runtime_hours)),
         ]
     if estimate.attack == "grover":
         rows += [

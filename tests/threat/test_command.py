@@ -79,3 +79,18 @@ def test_unknown_algorithm_method_and_format_are_usage_errors() -> None:
         run("RSA-2048", fmt="xml")
     with pytest.raises(UsageError, match="--all"):
         run(None)
+
+
+def test_cli_as_of_gives_years_and_refuses_a_bad_date(capsys: pytest.CaptureFixture[str]) -> None:
+    from pqtriage.cli import main
+
+    code = main(["estimate", "RSA-2048", "--format", "json", "--as-of", "2026-03-01"])
+    doc = json.loads(capsys.readouterr().out)
+    assert code == 0
+    # Quantum Threat Timeline Report 2025 (upper end, V2): median about 10.2 years after the
+    # report (2026-03-01), 10 % after about 3.3 years; RSA-2048 is the reference task.
+    assert doc["arrival"]["profile"] == "survey-2025-upper"
+    assert 2036.3 < doc["arrival"]["median_year"] < 2036.5
+    assert 2029.4 < doc["arrival"]["cautious_year"] < 2029.6
+    assert main(["estimate", "RSA-2048", "--as-of", "tomorrow"]) == 2
+    assert "--as-of" in capsys.readouterr().err

@@ -49,13 +49,20 @@ def test_every_construction_of_the_issue_is_a_sourced_row() -> None:
             "cannot be per_toffoli",
         ),
         (lambda d: d["surface_code"].pop("factory_tiles"), "malformed"),
-        (lambda d: d["shor_methods"][1]["physical_layout"].pop("magic_state_site_tiles"), "needs exactly"),
         (
-            lambda d: d["shor_methods"][1]["physical_layout"]["idle_storage_fraction"].pop("source"),
+            lambda d: d["shor_methods"][1]["physical_layout"].pop("magic_state_site_tiles"),
+            "needs exactly",
+        ),
+        (
+            lambda d: d["shor_methods"][1]["physical_layout"]["idle_storage_fraction"].pop(
+                "source"
+            ),
             "needs value, verified, source",
         ),
         (
-            lambda d: d["shor_methods"][1]["physical_layout"]["idle_storage_fraction"].update(value=1.0),
+            lambda d: d["shor_methods"][1]["physical_layout"]["idle_storage_fraction"].update(
+                value=1.0
+            ),
             "below 1",
         ),
     ],

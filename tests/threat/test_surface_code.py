@@ -27,7 +27,9 @@ def _physical(
     construction = shor.select_method(problem, method)
     strength = 112 if problem == "finite-field-dlog" else None
     return surface_code.physical_resources(
-        shor.logical_resources(construction, problem, n, strength), params, layout=construction.layout
+        shor.logical_resources(construction, problem, n, strength),
+        params,
+        layout=construction.layout,
     )
 
 

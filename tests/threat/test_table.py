@@ -60,7 +60,10 @@ def test_side_by_side_exact_text_with_grouping_and_legend() -> None:
             "P-256, secp256k1, brainpoolP256r1 (ECDSA/ECDH)",
         ),
         (["DH-2048", "DSA-2048", "ffdhe2048", "modp2048"], "DH/DSA-2048, ffdhe2048, modp2048"),
-        (["AES-128", "AES-128-GCM", "Camellia-128", "Camellia-128-CBC", "RC4"], "AES/Camellia-128, RC4"),
+        (
+            ["AES-128", "AES-128-GCM", "Camellia-128", "Camellia-128-CBC", "RC4"],
+            "AES/Camellia-128, RC4",
+        ),
         (["SHA-256", "SHA3-256", "SHA-512/256"], "SHA-256, SHA3-256, SHA-512/256"),
         (["DES", "DES-CBC"], "DES"),
     ],
