@@ -30,16 +30,24 @@ def register(app: typer.Typer) -> None:
         output_format: EstimateFormat = typer.Option(EstimateFormat.text, "--format", "-f", help="text or json."),
         output: Optional[str] = typer.Option(None, "--output", "-o", help="Write to this file."),
         profile: Optional[str] = typer.Option(None, "--profile", help="Threat profile for the arrival years."),
+        as_of: Optional[str] = typer.Option(None, "--as-of", help="Assessment date YYYY-MM-DD for the years (default today)."),
     ) -> None:
         """Estimate the quantum resources that break an algorithm, and when it falls."""
+        import datetime as dt
+
         from pqtriage.catalog import load_catalog
         from pqtriage.errors import UsageError
+        from pqtriage.model.profile import decimal_year
         from pqtriage.sources.profile_file import load_profile
         from pqtriage.threat.command import estimate_command
         from pqtriage.threat.parameters import ThreatParameters
 
         if not all_ and not algorithm:
             raise UsageError("name an algorithm or pass --all", hint="for example: pqtriage estimate RSA-2048")
+        try:
+            day = dt.date.fromisoformat(as_of) if as_of else dt.date.today()
+        except ValueError as exc:
+            raise UsageError(f"--as-of {as_of!r} is not a date", hint="write YYYY-MM-DD, for example 2026-05-01") from exc
         threat_profile = load_profile(profile)
         base = ThreatParameters()
         if threat_profile.qubit_doubling_years:
@@ -50,6 +58,7 @@ def register(app: typer.Typer) -> None:
         view, code = estimate_command(
             algorithm, all_, method, error_rate, cycle_us, reaction_us, maxdepth, output_format.value,
             resolve=lambda name: catalog.resolve(name), specs=catalog.specs, base=base,
+            profile=threat_profile, as_of_year=decimal_year(day), as_of_label=day.isoformat(),
         )
         if isinstance(view, str):
             if output:

@@ -17,6 +17,7 @@ from __future__ import annotations
 import math
 from collections.abc import Mapping
 from dataclasses import dataclass
+from typing import Protocol
 
 from pqtriage.catalog.spec import AlgorithmSpec
 from pqtriage.threat.grover import grover_resources
@@ -32,6 +33,24 @@ from pqtriage.threat.surface_code import (
 
 REFERENCE_NAME = "RSA-2048"
 REFERENCE_BITS = 2048
+
+
+class ArrivalDistribution(Protocol):
+    """What the arrival model needs of a threat profile (pqtriage.model.profile.ThreatProfile)."""
+
+    @property
+    def name(self) -> str:
+        """Short identifier of the profile."""
+        ...
+
+    @property
+    def risk_tolerance(self) -> float:
+        """Accepted probability of exposure: the cautious year is read at this quantile."""
+        ...
+
+    def quantile(self, probability: float, as_of: float, shift_years: float = 0.0) -> float:
+        """Earliest decimal year the shifted, conditioned arrival reaches ``probability``."""
+        ...
 
 
 @dataclass(frozen=True)
@@ -53,9 +72,18 @@ class ArrivalRow:
     computed_shift_years: float | None
     """The shift before the horizon cut-off (finite even when shift_years is inf)."""
     median_year: float | None
-    """Reference median year plus the shift, when the profile gives a median."""
+    """Median decimal year it falls (profile quantile 0.5 with the shift; inf: the profile
+    never reaches it); None without a profile."""
     explanation: str
     """One sentence with the numbers."""
+    cautious_year: float | None = None
+    """Decimal year it falls at the profile's risk tolerance (inf as above); None without one."""
+    risk_tolerance: float | None = None
+    """The profile's risk tolerance used for ``cautious_year``."""
+    profile: str | None = None
+    """Name of the threat profile the years come from."""
+    as_of_year: float | None = None
+    """Decimal year on which "not fallen yet" is known (conditions the profile)."""
 
 
 class ResourceArrivalModel:
@@ -67,13 +95,21 @@ class ResourceArrivalModel:
         methods: Mapping[str, str] | None = None,
         params: ThreatParameters | None = None,
         data: MethodData | None = None,
+        profile: ArrivalDistribution | None = None,
+        as_of_year: float | None = None,
     ) -> None:
         """Args:
         doubling_years: years for physical-qubit capacity to double (default from params).
         methods: construction per problem family (``{"factoring": "1905.09749"}``); others default.
         params: physical and search assumptions.
         data: method data (the shipped methods.yaml by default).
+        profile: threat profile for the years it falls; needs ``as_of_year``.
+        as_of_year: decimal year of the assessment (conditions the profile).
         """
+        if profile is not None and as_of_year is None:
+            raise ValueError("a profile needs the as-of year")
+        self.profile = profile
+        self.as_of_year = as_of_year
         self.params = params or ThreatParameters()
         self.doubling_years = (
             doubling_years if doubling_years is not None else self.params.doubling_years
@@ -103,7 +139,8 @@ class ResourceArrivalModel:
     def _shor_qubits(self, family: str, bits: int, strength: int | None) -> float | None:
         method = select_method(family, self.methods.get(family), self.data)
         logical = logical_resources(method, family, bits, strength)
-        return physical_resources(logical, self.params, self.data.surface_code).physical_qubits
+        physical = physical_resources(logical, self.params, self.data.surface_code, method.layout)
+        return physical.physical_qubits
 
     def _grover_qubits_log2(self, spec: AlgorithmSpec) -> tuple[float, str]:
         assert spec.grover_target is not None and spec.problem_bits is not None
@@ -138,6 +175,15 @@ class ResourceArrivalModel:
         def row(
             basis: str, log2q: float | None, shift: float, computed: float | None, text: str
         ) -> ArrivalRow:
+            profile, as_of = self.profile, self.as_of_year
+            if profile is not None and as_of is not None:
+                # Conditioned on "not fallen by as_of" (pqtriage.model.profile.quantile).
+                year: float | None = profile.quantile(0.5, as_of, shift)
+                cautious: float | None = profile.quantile(profile.risk_tolerance, as_of, shift)
+                return ArrivalRow(
+                    spec.name, spec.quantum_attack, basis, log2q, ref, shift, computed, year,
+                    text, cautious, profile.risk_tolerance, profile.name, as_of,
+                )  # fmt: skip
             year = None if median is None or math.isinf(shift) else median + shift
             return ArrivalRow(
                 spec.name, spec.quantum_attack, basis, log2q, ref, shift, computed, year, text

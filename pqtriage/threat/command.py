@@ -14,11 +14,12 @@ from rich.console import RenderableType
 
 from pqtriage.catalog.spec import AlgorithmSpec, Resolution
 from pqtriage.errors import EXIT_OK, UsageError
-from pqtriage.threat.arrival import ResourceArrivalModel
-from pqtriage.threat.estimate import estimate
-from pqtriage.threat.methods import load_method_data
+from pqtriage.threat.arrival import ArrivalDistribution, ResourceArrivalModel
+from pqtriage.threat.estimate import Estimate, estimate
+from pqtriage.threat.methods import MethodData, load_method_data
 from pqtriage.threat.parameters import ThreatParameters
-from pqtriage.threat.view import side_by_side, to_json_dict, working_view
+from pqtriage.threat.table import TARGETS, TableContext, side_by_side
+from pqtriage.threat.view import to_json_dict, working_view
 
 OUTPUT_FORMATS: tuple[str, ...] = ("text", "json")
 Resolver = Callable[[str], "AlgorithmSpec | Resolution | None"]
@@ -54,6 +55,9 @@ def estimate_command(
     resolve: Resolver,
     specs: Callable[[], Iterable[AlgorithmSpec]] | Iterable[AlgorithmSpec],
     base: ThreatParameters | None = None,
+    profile: ArrivalDistribution | None = None,
+    as_of_year: float | None = None,
+    as_of_label: str | None = None,
 ) -> tuple[RenderableType | str, int]:
     """Estimate one algorithm (working view) or all (side-by-side table), or JSON of either.
 
@@ -67,6 +71,10 @@ def estimate_command(
         resolve: catalog lookup, name -> AlgorithmSpec or Resolution (or None when unknown).
         specs: every catalog spec (a sequence or a callable returning one), for ``all_``.
         base: further parameters (from the profile); the options above override them.
+        profile: threat profile for the years each algorithm falls (median and at its risk
+            tolerance); None leaves the years out.
+        as_of_year: decimal year of the assessment (--as-of), needed with ``profile``.
+        as_of_label: the same date as YYYY-MM-DD, for the legend.
 
     Returns:
         The renderable (text) or JSON string, and the exit code.
@@ -93,7 +101,9 @@ def estimate_command(
                 f"--method {method!r} is not a known construction", hint=f"use {known}"
             )
         overrides = {family: chosen.id for family in chosen.families}
-    model = ResourceArrivalModel(methods=overrides, params=params, data=data)
+    model = ResourceArrivalModel(
+        methods=overrides, params=params, data=data, profile=profile, as_of_year=as_of_year
+    )
     if all_:
         pool = specs() if callable(specs) else specs
         chosen_specs = [s for s in pool if s.quantum_attack in ("shor", "grover")]
@@ -103,7 +113,8 @@ def estimate_command(
         ]
         if output_format == "json":
             return json.dumps([to_json_dict(e) for e in estimates], indent=2), EXIT_OK
-        return side_by_side(estimates), EXIT_OK
+        context = _context(estimates, params, model, data, profile, as_of_label)
+        return side_by_side(estimates, context), EXIT_OK
     if not algorithm:
         raise UsageError("name an algorithm or give --all", hint="for example: estimate RSA-2048")
     spec = _resolve(algorithm, resolve)
@@ -111,3 +122,45 @@ def estimate_command(
     if output_format == "json":
         return json.dumps(to_json_dict(result), indent=2), EXIT_OK
     return working_view(result), EXIT_OK
+
+
+def _context(
+    estimates: list[Estimate],
+    params: ThreatParameters,
+    model: ResourceArrivalModel,
+    data: MethodData,
+    profile: ArrivalDistribution | None,
+    as_of_label: str | None,
+) -> TableContext:
+    """The legend's facts: methods in use, assumptions, profile, and method caveats."""
+    targets = dict(
+        zip(
+            ("factoring", "finite-field-dlog", "elliptic-curve-dlog", "key-search", "preimage"),
+            TARGETS,
+            strict=True,
+        )
+    )
+    seen: dict[tuple[str, str], bool] = {}
+    for e in estimates:
+        if e.method is not None and e.problem in targets:
+            seen.setdefault((targets[e.problem], e.method), e.method_is_default)
+    methods = tuple((target, method, default) for (target, method), default in seen.items())
+    notes: list[str] = []
+    with_layout = {m.id for m in data.shor_methods if m.layout is not None}
+    used = {method for _, method, _ in methods}
+    generic_curves = [m for t, m, _ in methods if t == "curves" and m not in with_layout]
+    if used & with_layout and generic_curves:
+        notes.append(
+            f"Note: {', '.join(sorted(used & with_layout))} has a compact layout (dense storage, "
+            f"cultivation); {', '.join(generic_curves)} has none published, so curves may sit "
+            "later than they would with one (docs/threat-model.md)."
+        )
+    return TableContext(
+        params=params,
+        methods=methods,
+        reference_physical_qubits=model.reference_physical_qubits,
+        profile=None if profile is None else profile.name,
+        risk_tolerance=None if profile is None else profile.risk_tolerance,
+        as_of=as_of_label,
+        notes=tuple(notes),
+    )

@@ -145,7 +145,7 @@ def estimate(
         logical = logical_resources(
             construction, spec.shor_problem, spec.problem_bits, spec.classical_bits
         )
-        physical = physical_resources(logical, params, data.surface_code)
+        physical = physical_resources(logical, params, data.surface_code, construction.layout)
         default = spec.shor_problem in construction.default_for
         return _build(
             empty,

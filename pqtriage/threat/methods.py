@@ -62,6 +62,52 @@ class Quantity:
 
 
 @dataclass(frozen=True)
+class LayoutParameter:
+    """One method-level layout value with its provenance."""
+
+    name: str
+    """Key in methods.yaml (idle_storage_fraction ...)."""
+    value: float
+    """The value used."""
+    verified: str
+    """V, V2, M or A (A includes calibrations to a published headline)."""
+    source: str
+    """Where the value comes from, or why it was chosen."""
+
+
+@dataclass(frozen=True)
+class PhysicalLayout:
+    """How a construction lays out its logical qubits, when it departs from the generic layer.
+
+    Idle logical qubits sit in dense storage (yoked surface codes); magic states come from
+    small cultivation sites instead of 72-tile CCZ factories; Toffoli gates run one after
+    another at a rate set by lattice surgery.
+    """
+
+    idle_storage_fraction: float
+    """Fraction of the logical qubits held in dense idle storage at any time."""
+    storage_tiles_per_logical: float
+    """Physical footprint of one stored logical qubit, in tiles of the compute distance."""
+    magic_state_site_tiles: float
+    """Footprint of one magic-state site (cultivation and its output stage), in tiles."""
+    magic_state_site_cycles_per_toffoli: float
+    """Code cycles one site needs for the magic states of one Toffoli gate."""
+    distance_cycles_per_toffoli: float
+    """Serial rate: each Toffoli takes this many times d code cycles (at least one reaction)."""
+    parameters: tuple[LayoutParameter, ...]
+    """Every value above with its source and flag, in file order."""
+
+
+LAYOUT_KEYS: tuple[str, ...] = (
+    "idle_storage_fraction",
+    "storage_tiles_per_logical",
+    "magic_state_site_tiles",
+    "magic_state_site_cycles_per_toffoli",
+    "distance_cycles_per_toffoli",
+)
+
+
+@dataclass(frozen=True)
 class ShorMethod:
     """One published Shor-type construction, identified by its arXiv number."""
 
@@ -95,6 +141,8 @@ class ShorMethod:
     """Exponent qubits per bit of a short discrete logarithm (Ekera-Hastad: 3)."""
     ff_exponent_bits_per_strength_bit: float | None = None
     """Short-exponent bits per bit of security strength (2)."""
+    layout: PhysicalLayout | None = None
+    """Method-level physical layout; None uses the generic surface-code layer."""
 
 
 @dataclass(frozen=True)
@@ -206,6 +254,28 @@ def _quantity(row: dict[str, Any], key: str, where: str) -> Quantity:
     raise _fail(where, f"'{key}' needs terms, anchor or per_toffoli")
 
 
+def _layout(raw: Any, where: str) -> PhysicalLayout | None:
+    if raw is None:
+        return None
+    if not isinstance(raw, dict) or set(raw) != set(LAYOUT_KEYS):
+        raise _fail(where, f"'physical_layout' needs exactly {', '.join(LAYOUT_KEYS)}")
+    parameters = []
+    for key in LAYOUT_KEYS:
+        entry = raw[key]
+        try:
+            value = float(entry["value"])
+            verified, source = str(entry["verified"]), " ".join(str(entry["source"]).split())
+        except (KeyError, TypeError, ValueError) as exc:
+            raise _fail(where, f"physical_layout.{key} needs value, verified, source") from exc
+        if not (math.isfinite(value) and value > 0) or not source or not verified:
+            raise _fail(where, f"physical_layout.{key} must be positive with a source and flag")
+        parameters.append(LayoutParameter(key, value, verified, source))
+    values = {p.name: p.value for p in parameters}
+    if values["idle_storage_fraction"] >= 1:
+        raise _fail(where, "physical_layout.idle_storage_fraction must be below 1")
+    return PhysicalLayout(**values, parameters=tuple(parameters))
+
+
 def _method(row: Any, index: int) -> ShorMethod:
     if not isinstance(row, dict):
         raise _fail(f"shor_methods[{index}]", "must be a mapping")
@@ -242,6 +312,7 @@ def _method(row: Any, index: int) -> ShorMethod:
         ff_factoring_exponent_per_bit=ff.get("factoring_exponent_per_modulus_bit"),
         ff_dlog_exponent_per_bit=ff.get("dlog_exponent_per_exponent_bit"),
         ff_exponent_bits_per_strength_bit=ff.get("exponent_bits_per_strength_bit"),
+        layout=_layout(row.get("physical_layout"), where),
     )
 
 

@@ -1,4 +1,6 @@
-"""Formatters for estimates: they return rich renderables or plain data, and never print.
+"""Formatters for one estimate (working view, JSON) and shared labels; they never print.
+
+The side-by-side table of every algorithm is in :mod:`pqtriage.threat.table`.
 
 Names from inputs are placed in :class:`rich.text.Text` objects, never parsed as markup.
 """
@@ -6,14 +8,13 @@ Names from inputs are placed in :class:`rich.text.Text` objects, never parsed as
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
 from typing import Any
 
-from rich import box
 from rich.console import Group, RenderableType
 from rich.table import Table
 from rich.text import Text
 
+from pqtriage.threat.arrival import ArrivalRow
 from pqtriage.threat.estimate import Estimate
 
 NOT_APPLICABLE = "-"
@@ -27,14 +28,55 @@ def _count(value: float | None) -> str:
     return f"{value:.3g}"
 
 
-def _log2(value: float | None) -> str:
-    return NOT_APPLICABLE if value is None else f"2^{value:.1f}"
-
-
-def _hours(value: float | None) -> str:
+def compact_qubits(value: float | None) -> str:
+    """Physical qubits in millions with two or so significant figures: 0.95 M, 6.5 M, 22 M."""
     if value is None:
         return NOT_APPLICABLE
-    return f"{value:.3g} h" if value < 48 else f"{value / 24:.3g} d"
+    if value >= 1e9:
+        return f"{value / 1e9:.2g} G"
+    millions = value / 1e6
+    if millions < 1:
+        return f"{millions:.2f} M"
+    return f"{millions:.1f} M" if millions < 10 else f"{millions:.0f} M"
+
+
+def compact_hours(value: float | None) -> str:
+    """Runtime in minutes, hours, days or years: 8 min, 5.9 h, 18 h, 2.0 d, 39 d, 3.0 y."""
+    if value is None:
+        return NOT_APPLICABLE
+    if value < 1:
+        return f"{value * 60:.0f} min"
+    if value < 48:
+        return f"{value:.1f} h" if value < 10 else f"{value:.0f} h"
+    days = value / 24
+    if days >= 365.25:
+        return f"{days / 365.25:.1f} y"
+    return f"{days:.1f} d" if days < 10 else f"{days:.0f} d"
+
+
+def year_label(year: float | None) -> str:
+    """Calendar year of a decimal year; 'beyond' when the profile never reaches it."""
+    if year is None:
+        return NOT_APPLICABLE
+    if math.isinf(year):
+        return "beyond"
+    return f"{math.floor(year)}"
+
+
+def falls_label(estimate: Estimate) -> str:
+    """'2031 / 2037' (cautious / median), 'beyond horizon', or '-' without profile years."""
+    arrival = estimate.arrival
+    if arrival is None:
+        return NOT_APPLICABLE
+    if math.isinf(arrival.shift_years):
+        return "beyond horizon"
+    if arrival.cautious_year is None:
+        return year_label(arrival.median_year)
+    return f"{year_label(arrival.cautious_year)} / {year_label(arrival.median_year)}"
+
+
+def _log2(value: float | None) -> str:
+    return NOT_APPLICABLE if value is None else f"2^{value:.1f}"
 
 
 def _shift(estimate: Estimate) -> str:
@@ -44,13 +86,6 @@ def _shift(estimate: Estimate) -> str:
     if math.isinf(arrival.shift_years):
         return "never"
     return f"{arrival.shift_years:+.1f} y"
-
-
-def _falls(estimate: Estimate) -> str:
-    arrival = estimate.arrival
-    if arrival is None or arrival.median_year is None or math.isinf(arrival.shift_years):
-        return NOT_APPLICABLE
-    return f"{arrival.median_year:.0f}"
 
 
 def _method(estimate: Estimate) -> str:
@@ -71,8 +106,8 @@ def key_figures(estimate: Estimate) -> list[tuple[str, str]]:
             ("logical qubits", _count(estimate.logical_qubits)),
             ("Toffoli count", _count(estimate.toffoli_count)),
             ("code distance", _count(estimate.code_distance)),
-            ("physical qubits", _count(estimate.physical_qubits)),
-            ("runtime per run", _hours(estimate.runtime_hours)),
+            ("physical qubits", _physical(estimate.physical_qubits)),
+            ("runtime per run", compact_hours(estimate.runtime_hours)),
         ]
     if estimate.attack == "grover":
         rows += [
@@ -83,7 +118,21 @@ def key_figures(estimate: Estimate) -> list[tuple[str, str]]:
         ]
     rows.append(("NIST category", _category(estimate.nist_category)))
     rows.append(("arrival shift", _shift(estimate)))
+    arrival = estimate.arrival
+    if arrival is not None and arrival.profile is not None:
+        if math.isinf(arrival.shift_years):
+            rows.append(("falls", "beyond the planning horizon"))
+        else:
+            tolerance = arrival.risk_tolerance or 0.0
+            rows.append(("falls (median)", year_label(arrival.median_year)))
+            rows.append((f"falls ({tolerance:.0%} risk)", year_label(arrival.cautious_year)))
     return rows
+
+
+def _physical(value: float | None) -> str:
+    if value is None:
+        return NOT_APPLICABLE
+    return f"{compact_qubits(value)} ({value:,.0f})"
 
 
 def _bits(value: float | None) -> str:
@@ -114,40 +163,21 @@ def working_view(estimate: Estimate) -> RenderableType:
     ]
     if estimate.arrival is not None:
         parts.append(Text(f"arrival: {estimate.arrival.explanation}"))
+        if estimate.arrival.profile is not None:
+            parts.append(Text(_years_sentence(estimate.arrival)))
     if estimate.notes:
         parts.append(Text(f"notes: {estimate.notes}"))
     return Group(*parts)
 
 
-def side_by_side(estimates: Sequence[Estimate]) -> Table:
-    """A table of what falls when: one row per estimate, ordered by arrival shift."""
-    table = Table(
-        box=box.SIMPLE, title="What falls when (shift against RSA-2048 factored in about a day)"
+def _years_sentence(arrival: ArrivalRow) -> str:
+    as_of = arrival.as_of_year or 0.0
+    return (
+        f"years: quantiles of profile {arrival.profile} shifted by {arrival.shift_years:+.1f} "
+        f"years, given no CRQC by {as_of:.2f}: median, and the year its probability reaches the "
+        f"{arrival.risk_tolerance or 0:.0%} risk tolerance. Estimates are uncertain; official "
+        "guidance comes first."
     )
-    table.add_column("algorithm", no_wrap=True)
-    # qubits: physical qubits of one Shor-type run; quantum: bits of security against Grover.
-    for column in ("attack", "method", "qubits", "runtime", "quantum", "category"):
-        table.add_column(column)
-    table.add_column("shift", justify="right")
-    table.add_column("falls")
-
-    def order(e: Estimate) -> tuple[float, str]:
-        shift = e.arrival.shift_years if e.arrival is not None else math.inf
-        return (shift, e.algorithm)
-
-    for e in sorted(estimates, key=order):
-        table.add_row(
-            Text(e.algorithm),
-            e.attack,
-            e.method or NOT_APPLICABLE,
-            _count(e.physical_qubits),
-            _hours(e.runtime_hours),
-            NOT_APPLICABLE if e.quantum_security_bits is None else f"{e.quantum_security_bits:.0f}",
-            _category(e.nist_category),
-            _shift(e),
-            _falls(e),
-        )
-    return table
 
 
 def _finite(value: float | None) -> float | None:
@@ -161,6 +191,10 @@ def to_json_dict(estimate: Estimate) -> dict[str, Any]:
     if arrival is not None:
         arrival_dict = {
             "median_year": _finite(arrival.median_year),
+            "cautious_year": _finite(arrival.cautious_year),
+            "risk_tolerance": arrival.risk_tolerance,
+            "profile": arrival.profile,
+            "as_of_year": arrival.as_of_year,
             "shift_years": _finite(arrival.shift_years),
             "beyond_horizon": math.isinf(arrival.shift_years),
             "computed_shift_years": _finite(arrival.computed_shift_years),

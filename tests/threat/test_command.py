@@ -44,7 +44,11 @@ def test_json_for_one_algorithm_states_the_method() -> None:
 def test_working_view_mentions_the_default_and_sources() -> None:
     text = render(run("RSA-2048"))  # type: ignore[arg-type]
     assert "2505.15917 (default)" in text
-    assert "arXiv:1905.09749" in text and "arXiv:1812.01238" in text
+    # The default's own layout: yoked storage and cultivation sites, not 72-tile factories.
+    assert "arXiv:1905.09749" in text and "arXiv:2312.04522" in text
+    assert "arXiv:2409.17595" in text and "arXiv:1812.01238" not in text
+    generic = render(run("RSA-2048", method="1905.09749"))  # type: ignore[arg-type]
+    assert "arXiv:1812.01238" in generic and "arXiv:2312.04522" not in generic
 
 
 def test_all_lists_every_attackable_algorithm_once() -> None:
@@ -75,3 +79,18 @@ def test_unknown_algorithm_method_and_format_are_usage_errors() -> None:
         run("RSA-2048", fmt="xml")
     with pytest.raises(UsageError, match="--all"):
         run(None)
+
+
+def test_cli_as_of_gives_years_and_refuses_a_bad_date(capsys: pytest.CaptureFixture[str]) -> None:
+    from pqtriage.cli import main
+
+    code = main(["estimate", "RSA-2048", "--format", "json", "--as-of", "2026-03-01"])
+    doc = json.loads(capsys.readouterr().out)
+    assert code == 0
+    # Quantum Threat Timeline Report 2025 (upper end, V2): median about 10.2 years after the
+    # report (2026-03-01), 10 % after about 3.3 years; RSA-2048 is the reference task.
+    assert doc["arrival"]["profile"] == "survey-2025-upper"
+    assert 2036.3 < doc["arrival"]["median_year"] < 2036.5
+    assert 2029.4 < doc["arrival"]["cautious_year"] < 2029.6
+    assert main(["estimate", "RSA-2048", "--as-of", "tomorrow"]) == 2
+    assert "--as-of" in capsys.readouterr().err

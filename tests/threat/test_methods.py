@@ -26,6 +26,14 @@ def test_every_construction_of_the_issue_is_a_sourced_row() -> None:
         assert m.source and m.title and m.year >= 2017 and m.notes
         assert f"arXiv:{m.id}" in m.source
     assert data.surface_code.source
+    # Method-level layout values each carry a source and a flag; calibrations say so.
+    layouts = [m.layout for m in data.shor_methods if m.layout is not None]
+    assert layouts
+    for layout in layouts:
+        for parameter in layout.parameters:
+            assert parameter.source and parameter.verified in {"V", "V2", "M", "A"}
+        calibrated = [p for p in layout.parameters if "Calibration" in p.source]
+        assert all(p.verified == "A" and "Not tuned per key size" in p.source for p in calibrated)
     assert all(f.source for f in data.grover_figures)
 
 
@@ -41,6 +49,22 @@ def test_every_construction_of_the_issue_is_a_sourced_row() -> None:
             "cannot be per_toffoli",
         ),
         (lambda d: d["surface_code"].pop("factory_tiles"), "malformed"),
+        (
+            lambda d: d["shor_methods"][1]["physical_layout"].pop("magic_state_site_tiles"),
+            "needs exactly",
+        ),
+        (
+            lambda d: d["shor_methods"][1]["physical_layout"]["idle_storage_fraction"].pop(
+                "source"
+            ),
+            "needs value, verified, source",
+        ),
+        (
+            lambda d: d["shor_methods"][1]["physical_layout"]["idle_storage_fraction"].update(
+                value=1.0
+            ),
+            "below 1",
+        ),
     ],
 )
 def test_malformed_rows_raise_catalog_errors(mutate: object, message: str) -> None:

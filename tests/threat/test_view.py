@@ -11,7 +11,7 @@ from rich.console import Console, RenderableType
 
 from pqtriage.threat.arrival import ArrivalRow
 from pqtriage.threat.estimate import Estimate, estimate
-from pqtriage.threat.view import side_by_side, to_json_dict, working_view
+from pqtriage.threat.view import compact_hours, compact_qubits, to_json_dict, working_view
 from tests.threat.helpers import cipher, hash_, rsa
 
 JSON_FIELDS = (
@@ -39,8 +39,16 @@ def render(renderable: RenderableType) -> str:
     return "\n".join(line.rstrip() for line in out.splitlines())
 
 
-def _small(name: str = "RSA-[bold]2048[/bold]") -> Estimate:
+def _small(
+    name: str = "RSA-[bold]2048[/bold]", years: tuple[float, float] | None = None
+) -> Estimate:
+    """A hand-made estimate; ``years`` = (median, cautious) from a profile named 'test'."""
     arrival = ArrivalRow(name, "shor", "Shor", 24.0, 2.0**24, 0.0, 0.0, None, "needs 2^24.0")
+    if years is not None:
+        arrival = ArrivalRow(
+            name, "shor", "Shor", 24.0, 2.0**24, 0.0, 0.0, years[0], "needs 2^24.0",
+            years[1], 0.1, "test", 2026.25,
+        )  # fmt: skip
     none = dict.fromkeys(
         (
             "grover_iterations_log2",
@@ -87,7 +95,7 @@ def test_working_view_exact_text_and_literal_names() -> None:
         "logical qubits      6,189\n"
         "Toffoli count       2.7e+09\n"
         "code distance       27\n"
-        "physical qubits     2e+07\n"
+        "physical qubits     20 M (20,000,000)\n"
         "runtime per run     5.1 h\n"
         "NIST category       -\n"
         "arrival shift       +0.0 y\n"
@@ -99,35 +107,54 @@ def test_working_view_exact_text_and_literal_names() -> None:
     )
 
 
-def test_side_by_side_exact_text() -> None:
-    text = render(side_by_side([_small("RSA-2048")]))
-    assert text.splitlines() == [
-        "              What falls when (shift against RSA-2048 factored in about a day)",
-        "",
-        "  algorithm   attack   method       qubits   runtime   quantum   category    shift   falls",
-        " " + "\u2500" * 90,
-        "  RSA-2048    shor     1905.09749   2e+07    5.1 h     -         -          +0.0 y   -",
+def test_working_view_shows_the_years_from_the_profile() -> None:
+    text = render(working_view(_small("RSA-2048", years=(2036.4, 2029.6))))
+    assert text.splitlines()[10:13] == [
+        "arrival shift       +0.0 y",
+        "falls (median)      2036",
+        "falls (10% risk)    2029",
     ]
+    assert text.endswith(
+        "years: quantiles of profile test shifted by +0.0 years, given no CRQC by 2026.25: median, "
+        "and the\nyear its probability reaches the 10% risk tolerance. Estimates are uncertain; "
+        "official guidance\ncomes first."
+    )
 
 
-def test_side_by_side_orders_by_arrival() -> None:
-    from pqtriage.threat.arrival import ResourceArrivalModel
+@pytest.mark.parametrize(
+    "qubits, label",
+    [(948_467.5, "0.95 M"), (6.09e6, "6.1 M"), (21.56e6, "22 M"), (None, "-"), (2.4e9, "2.4 G")],
+)
+def test_compact_qubits(qubits: float | None, label: str) -> None:
+    assert compact_qubits(qubits) == label
 
-    model = ResourceArrivalModel()
-    rows = [estimate(s, arrival_model=model) for s in (cipher(128), rsa(4096, 152), rsa(1024, 80))]
-    text = render(side_by_side(rows))
-    assert text.index("RSA-1024") < text.index("RSA-4096") < text.index("AES-128")
-    assert "never" in text
+
+@pytest.mark.parametrize(
+    "hours, label",
+    [(0.139, "8 min"), (5.94, "5.9 h"), (18.1, "18 h"), (48.75, "2.0 d"), (447.8, "19 d"),
+     (26_660.0, "3.0 y")],
+)  # fmt: skip
+def test_compact_hours(hours: float, label: str) -> None:
+    assert compact_hours(hours) == label
 
 
 @pytest.mark.parametrize("spec", [rsa(2048), cipher(128), hash_("SHA-256", 256, "collision")])
 def test_json_has_the_fields_and_nulls_not_zeros(spec: object) -> None:
+    from pqtriage.sources.profile_file import load_profile
     from pqtriage.threat.arrival import ResourceArrivalModel
 
-    result = to_json_dict(estimate(spec, arrival_model=ResourceArrivalModel()))  # type: ignore[arg-type]
+    model = ResourceArrivalModel(profile=load_profile("survey-2025-upper"), as_of_year=2026.25)
+    result = to_json_dict(estimate(spec, arrival_model=model))  # type: ignore[arg-type]
     for field in JSON_FIELDS:
         assert field in result
-    assert {"median_year", "shift_years"} <= set(result["arrival"])
+    assert {"median_year", "shift_years", "cautious_year", "risk_tolerance"} <= set(
+        result["arrival"]
+    )
+    assert result["arrival"]["profile"] == "survey-2025-upper"
+    if result["attack"] == "shor":
+        assert result["arrival"]["cautious_year"] < result["arrival"]["median_year"]
+    else:
+        assert result["arrival"]["median_year"] is None
     json.dumps(result, allow_nan=False)  # no NaN or Infinity in the JSON
     if result["attack"] == "shor":
         assert result["grover_iterations_log2"] is None and result["maxdepth_log2"] is None
