@@ -28,7 +28,7 @@ systems:
         algorithm: AES-128-GCM
   - id: "+scada-link"
     name: "-2+3 SCADA link"
-    shelf_life_years: 5
+    shelf_life_years: 7
     migration_years: 2
     uses:
       - purpose: key-establishment
@@ -51,10 +51,11 @@ systems:
 
 
 def triaged(tmp_path: Path, text: str = INVENTORY, name: str = "inventory.yaml") -> TriageResult:
-    """Write the inventory and triage it with the default profile on AS_OF."""
+    """Write the inventory and triage it on AS_OF with a fixed what-if profile (CRQC on
+    1 January 2035), so verdicts do not move when resource estimates are refined."""
     path = tmp_path / name
     path.write_text(text, encoding="utf-8")
-    return run_triage(str(path), None, AS_OF)
+    return run_triage(str(path), str(Path(__file__).with_name("what-if-2035.yaml")), AS_OF)
 
 
 def line_of(text: str, needle: str) -> int:
