@@ -41,7 +41,7 @@ MILESTONE_KINDS: tuple[str, ...] = (
 PURPOSE_CLASSES: tuple[str, ...] = ("signature", "key-establishment")
 """Purpose classes of NIST IR 8547 (Table 2 signatures, Table 4 key establishment)."""
 STATUSES: tuple[str, ...] = ("V", "V2", "M")
-"""V checked against the primary text, V2 several secondary transcriptions, M from memory."""
+"""V checked against the primary text, V2 several secondary sources, M from memory."""
 DEFAULT_POLICY_IDS: tuple[str, ...] = ("nist-ir-8547",)
 """Policies used when neither the command line nor the inventory names any."""
 

@@ -1,7 +1,7 @@
 """Deadlines per the published tables, each check naming its source.
 
 Check values come from /work/shared/reference/published-figures.md section 6 (and 2 for
-IR 8547): V = checked against the primary text, V2 = several secondary transcriptions.
+IR 8547): V = checked against the primary text, V2 = several secondary sources.
 "After 2030" / "by 2030" are encoded as the last allowed day, 2030-12-31.
 """
 
