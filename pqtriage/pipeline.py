@@ -27,13 +27,24 @@ def parse_as_of(text: str | None) -> dt.date:
         raise UsageError(f"--as-of {text!r} is not a date", hint="write YYYY-MM-DD") from exc
 
 
-def arrival_model_for(profile: ThreatProfile) -> ArrivalModel:
-    """Per-algorithm arrivals from resource estimates when the profile asks for them."""
+def arrival_model_for(profile: ThreatProfile, as_of: dt.date | None = None) -> ArrivalModel:
+    """Per-algorithm arrivals from resource estimates when the profile asks for them.
+
+    With ``as_of`` the model also carries the profile, so each arrival explanation has the
+    years the algorithm falls (median and at the profile's risk tolerance).
+    """
     if not profile.per_algorithm_arrival:
         return SharedArrival()
+    from pqtriage.model.profile import decimal_year
     from pqtriage.threat.arrival import ResourceArrivalModel
 
-    return ResourceArrivalModel(doubling_years=profile.qubit_doubling_years)
+    if as_of is None:
+        return ResourceArrivalModel(doubling_years=profile.qubit_doubling_years)
+    return ResourceArrivalModel(
+        doubling_years=profile.qubit_doubling_years,
+        profile=profile,
+        as_of_year=decimal_year(as_of),
+    )
 
 
 def run_triage(
@@ -95,5 +106,5 @@ def prepare(
     inventory = load_any(inventory_path, cbom_defaults)
     profile = load_profile(profile_name)
     catalog = load_catalog()
-    arrival = arrival_model_for(profile)
+    arrival = arrival_model_for(profile, as_of)
     return TriageRun(triage(inventory, catalog, profile, arrival, as_of), catalog, arrival)

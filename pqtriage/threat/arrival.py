@@ -10,6 +10,12 @@ the time hardware capacity needs to grow from one to the other when it doubles e
 counts: every Shor-type run here takes hours to days on the stated hardware, so the qubit
 count, not speed, is what must grow. Grover-type searches need S machines of the oracle's
 width to finish within the search window and under MAXDEPTH; that fleet's qubits are R.
+
+Like with like: R and R_ref are costed on the same physical layer, the generic surface-code
+layer unless both constructions bring their own layout (a compact layout on one side only
+would move the shift by the layout, not by the problem). By default every credible
+construction of the family is compared with its ``reference_counterpart`` (methods.yaml) and
+the earliest shift is kept (cautious); an explicit method override uses only that pair.
 """
 
 from __future__ import annotations
@@ -21,7 +27,7 @@ from typing import Protocol
 
 from pqtriage.catalog.spec import AlgorithmSpec
 from pqtriage.threat.grover import grover_resources
-from pqtriage.threat.methods import MethodData, load_method_data
+from pqtriage.threat.methods import MethodData, ShorMethod, load_method_data
 from pqtriage.threat.parameters import ThreatParameters
 from pqtriage.threat.shor import logical_resources, select_method
 from pqtriage.threat.surface_code import (
@@ -54,6 +60,29 @@ class ArrivalDistribution(Protocol):
 
 
 @dataclass(frozen=True)
+class Comparison:
+    """One like-with-like comparison of an algorithm with the reference task."""
+
+    method: str
+    """Construction attacking the algorithm (arXiv id)."""
+    reference_method: str
+    """Factoring construction costing RSA-2048 (arXiv id)."""
+    own_layouts: bool
+    """True when both are costed on their own layouts, False for the generic layer."""
+    physical_qubits: float | None
+    """Physical qubits of the algorithm on that layer; None when no distance suffices."""
+    reference_physical_qubits: float
+    """Physical qubits of RSA-2048 on that layer."""
+
+    @property
+    def layer(self) -> str:
+        """The layer both sides were costed on, in words."""
+        if self.own_layouts:
+            return "both costed on their own physical layouts"
+        return "both costed on the generic surface-code layer"
+
+
+@dataclass(frozen=True)
 class ArrivalRow:
     """Why one algorithm falls when it does, relative to the reference task."""
 
@@ -64,9 +93,10 @@ class ArrivalRow:
     basis: str
     """What the requirement counts (method and quantity)."""
     physical_qubits_log2: float | None
-    """log2 of the physical qubits the attack needs; None when nothing applies."""
+    """log2 of the physical qubits the attack needs, on the layer of the deciding comparison;
+    None when nothing applies."""
     reference_physical_qubits: float
-    """Physical qubits of the reference task (RSA-2048 under the factoring method)."""
+    """Physical qubits of the reference task (RSA-2048) in the deciding comparison."""
     shift_years: float
     """Years after the reference task's arrival (negative: earlier; inf: beyond horizon)."""
     computed_shift_years: float | None
@@ -84,6 +114,8 @@ class ArrivalRow:
     """Name of the threat profile the years come from."""
     as_of_year: float | None = None
     """Decimal year on which "not fallen yet" is known (conditions the profile)."""
+    comparison: Comparison | None = None
+    """The like-with-like comparison that decided a Shor-type shift; None otherwise."""
 
 
 class ResourceArrivalModel:
@@ -125,22 +157,84 @@ class ResourceArrivalModel:
         self.methods = dict(methods or {})
         for family, method_id in self.methods.items():
             select_method(family, method_id, self.data)  # raises on a bad override
-        reference = self._shor_qubits("factoring", REFERENCE_BITS, 112)
-        assert reference is not None, "the reference task must be feasible"
-        self.reference_physical_qubits = reference
+        self._reference_cache: dict[tuple[str, bool], float] = {}
+        factoring = select_method("factoring", self.methods.get("factoring"), self.data)
+        self.reference_method = factoring.id
+        # RSA-2048 under the factoring method with its own layout (what ``estimate`` shows),
+        # and on the generic layer (what layout-less comparisons, Grover fleets among them, use).
+        self.reference_physical_qubits = self._reference_qubits(factoring, own_layout=True)
+        self.reference_generic_physical_qubits = self._reference_qubits(factoring, False)
         self.name = (
             f"resource arrival (capacity doubles every {self.doubling_years:g} years; reference "
-            f"{REFERENCE_NAME} with {self._method_id('factoring')}, {reference:.3g} physical qubits)"
+            f"{REFERENCE_NAME} with {factoring.id}, {self.reference_physical_qubits:.3g} physical "
+            "qubits; like with like, earliest credible construction)"
         )
 
     def _method_id(self, family: str) -> str:
         return select_method(family, self.methods.get(family), self.data).id
 
-    def _shor_qubits(self, family: str, bits: int, strength: int | None) -> float | None:
-        method = select_method(family, self.methods.get(family), self.data)
+    def _qubits(
+        self, method: ShorMethod, family: str, bits: int, strength: int | None, own_layout: bool
+    ) -> float | None:
         logical = logical_resources(method, family, bits, strength)
-        physical = physical_resources(logical, self.params, self.data.surface_code, method.layout)
+        layout = method.layout if own_layout else None
+        physical = physical_resources(logical, self.params, self.data.surface_code, layout)
         return physical.physical_qubits
+
+    def _reference_qubits(self, method: ShorMethod, own_layout: bool) -> float:
+        key = (method.id, own_layout)
+        if key not in self._reference_cache:
+            qubits = self._qubits(method, "factoring", REFERENCE_BITS, 112, own_layout)
+            assert qubits is not None, "the reference task must be feasible"
+            self._reference_cache[key] = qubits
+        return self._reference_cache[key]
+
+    def pairs(self, family: str) -> tuple[tuple[ShorMethod, ShorMethod], ...]:
+        """(construction, reference construction) pairs compared for a family, default first.
+
+        With an override of the family or of factoring: the one pair of the named methods
+        (the family's override or default, against the factoring override or the method's
+        counterpart). Otherwise every credible construction of the family without an
+        ``arrival_exclusion`` against its counterpart (methods.yaml ``reference_counterpart``).
+        """
+        if family in self.methods or "factoring" in self.methods:
+            method = select_method(family, self.methods.get(family), self.data)
+            reference_id = self.methods.get("factoring", method.reference_counterpart)
+            return ((method, select_method("factoring", reference_id, self.data)),)
+        found = []
+        for method in sorted(
+            self.data.shor_methods, key=lambda m: family not in m.default_for
+        ):  # the default first, so that it decides ties
+            reference = self.data.method(method.reference_counterpart)
+            if (
+                family in method.families
+                and method.credible
+                and not method.arrival_exclusion
+                and reference is not None
+                and reference.credible
+                and not reference.arrival_exclusion
+            ):
+                found.append((method, reference))
+        return tuple(found)
+
+    def compare(
+        self, method: ShorMethod, reference: ShorMethod, family: str, bits: int,
+        strength: int | None,
+    ) -> Comparison:  # fmt: skip
+        """Cost the algorithm and RSA-2048 on one layer: their own layouts only if both have one."""
+        own = method.layout is not None and reference.layout is not None
+        return Comparison(
+            method.id,
+            reference.id,
+            own,
+            self._qubits(method, family, bits, strength, own),
+            self._reference_qubits(reference, own),
+        )
+
+    def _shift(self, qubits: float | None, reference: float) -> float:
+        if qubits is None:
+            return math.inf
+        return self.doubling_years * (math.log2(qubits) - math.log2(reference))
 
     def _grover_qubits_log2(self, spec: AlgorithmSpec) -> tuple[float, str]:
         assert spec.grover_target is not None and spec.problem_bits is not None
@@ -167,75 +261,105 @@ class ResourceArrivalModel:
         )
         return qubits_log2, basis
 
+    def _row(
+        self, spec: AlgorithmSpec, basis: str, log2q: float | None, shift: float,
+        computed: float | None, text: str, ref: float, comparison: Comparison | None = None,
+    ) -> ArrivalRow:  # fmt: skip
+        profile, as_of = self.profile, self.as_of_year
+        if profile is not None and as_of is not None:
+            # Conditioned on "not fallen by as_of" (pqtriage.model.profile.quantile).
+            year: float | None = profile.quantile(0.5, as_of, shift)
+            cautious: float | None = profile.quantile(profile.risk_tolerance, as_of, shift)
+            return ArrivalRow(
+                spec.name, spec.quantum_attack, basis, log2q, ref, shift, computed, year,
+                text, cautious, profile.risk_tolerance, profile.name, as_of, comparison,
+            )  # fmt: skip
+        median = self.params.reference_median_year
+        year = None if median is None or math.isinf(shift) else median + shift
+        return ArrivalRow(
+            spec.name, spec.quantum_attack, basis, log2q, ref, shift, computed, year, text,
+            comparison=comparison,
+        )  # fmt: skip
+
+    def _timed(
+        self, spec: AlgorithmSpec, log2q: float, ref: float, basis: str, text: str,
+        comparison: Comparison | None = None, after: str = "",
+    ) -> ArrivalRow:  # fmt: skip
+        computed = self._shift(2.0**log2q, ref)
+        beyond = computed > self.params.planning_horizon_years
+        text += f": {computed:+.1f} years at one doubling per {self.doubling_years:g} years"
+        if beyond:
+            text += f", beyond the {self.params.planning_horizon_years:g}-year planning horizon"
+        shift = math.inf if beyond else computed
+        return self._row(spec, basis, log2q, shift, computed, text + after, ref, comparison)
+
+    def _explain_shor(self, spec: AlgorithmSpec, family: str, bits: int) -> ArrivalRow:
+        comparisons = [
+            self.compare(m, r, family, bits, spec.classical_bits) for m, r in self.pairs(family)
+        ]
+        # Cautious across credible constructions: the earliest shift decides (min is stable
+        # and the default comes first, so the default decides ties).
+        best = min(
+            comparisons, key=lambda c: self._shift(c.physical_qubits, c.reference_physical_qubits)
+        )
+        basis = f"Shor ({family}, {best.method} against {best.reference_method})"
+        ref = best.reference_physical_qubits
+        if best.physical_qubits is None:
+            text = "no code distance suffices: beyond horizon"
+            return self._row(spec, basis, None, math.inf, None, text, ref, best)
+        text = (
+            f"{best.method} needs 2^{math.log2(best.physical_qubits):.1f} physical qubits "
+            f"against {ref:.3g} for {REFERENCE_NAME} under {best.reference_method}, "
+            f"like-with-like: {best.layer}"
+        )
+        others = [c for c in comparisons if c is not best]
+        after = ""
+        if others:
+            listed = ", ".join(
+                f"{c.method} vs {c.reference_method} "
+                + _signed(self._shift(c.physical_qubits, c.reference_physical_qubits))
+                for c in others
+            )
+            after = (
+                f"; earliest of the credible pairs, decided by {best.method} vs "
+                f"{best.reference_method} (also {listed})"
+            )
+        return self._timed(spec, math.log2(best.physical_qubits), ref, basis, text, best, after)
+
     def explain(self, spec: AlgorithmSpec) -> ArrivalRow:
         """The arrival of ``spec`` relative to the reference task, with its numbers."""
         ref = self.reference_physical_qubits
-        median = self.params.reference_median_year
-
-        def row(
-            basis: str, log2q: float | None, shift: float, computed: float | None, text: str
-        ) -> ArrivalRow:
-            profile, as_of = self.profile, self.as_of_year
-            if profile is not None and as_of is not None:
-                # Conditioned on "not fallen by as_of" (pqtriage.model.profile.quantile).
-                year: float | None = profile.quantile(0.5, as_of, shift)
-                cautious: float | None = profile.quantile(profile.risk_tolerance, as_of, shift)
-                return ArrivalRow(
-                    spec.name, spec.quantum_attack, basis, log2q, ref, shift, computed, year,
-                    text, cautious, profile.risk_tolerance, profile.name, as_of,
-                )  # fmt: skip
-            year = None if median is None or math.isinf(shift) else median + shift
-            return ArrivalRow(
-                spec.name, spec.quantum_attack, basis, log2q, ref, shift, computed, year, text
-            )
-
         if spec.quantum_attack == "none":
-            return row("no known quantum attack", None, math.inf, None, "no known quantum attack")
+            text = "no known quantum attack"
+            return self._row(spec, text, None, math.inf, None, text, ref)
         if spec.quantum_attack == "shor":
             if spec.shor_problem is None or spec.problem_bits is None:
-                return row(
-                    "no problem size",
-                    None,
-                    0.0,
-                    None,
-                    "no problem size known: falls with the reference task (cautious)",
-                )
-            qubits = self._shor_qubits(spec.shor_problem, spec.problem_bits, spec.classical_bits)
-            method = self._method_id(spec.shor_problem)
-            basis = f"Shor ({spec.shor_problem}, {method})"
-            if qubits is None:
-                return row(basis, None, math.inf, None, "no code distance suffices: beyond horizon")
-            log2q = math.log2(qubits)
-        else:
-            if spec.grover_target is None or spec.problem_bits is None:
-                return row(
-                    "no search size",
-                    None,
-                    math.inf,
-                    None,
-                    "no key or output size known: not assessed, treated as beyond horizon",
-                )
-            if spec.grover_target == "collision":
-                return row(
-                    "classical collision bound",
-                    None,
-                    math.inf,
-                    None,
-                    f"collision search costs 2^{spec.problem_bits / 2:g} classically; "
-                    "no quantum attack is cheaper",
-                )
-            log2q, basis = self._grover_qubits_log2(spec)
-        computed = self.doubling_years * (log2q - math.log2(ref))
-        beyond = computed > self.params.planning_horizon_years
-        shift = math.inf if beyond else computed
+                text = "no problem size known: falls with the reference task (cautious)"
+                return self._row(spec, "no problem size", None, 0.0, None, text, ref)
+            return self._explain_shor(spec, spec.shor_problem, spec.problem_bits)
+        if spec.grover_target is None or spec.problem_bits is None:
+            text = "no key or output size known: not assessed, treated as beyond horizon"
+            return self._row(spec, "no search size", None, math.inf, None, text, ref)
+        if spec.grover_target == "collision":
+            text = (
+                f"collision search costs 2^{spec.problem_bits / 2:g} classically; "
+                "no quantum attack is cheaper"
+            )
+            return self._row(spec, "classical collision bound", None, math.inf, None, text, ref)
+        log2q, basis = self._grover_qubits_log2(spec)
+        # The search fleet is costed on the generic layer, so the reference is too.
+        ref = self.reference_generic_physical_qubits
         text = (
-            f"needs 2^{log2q:.1f} physical qubits against {ref:.3g} for {REFERENCE_NAME}: "
-            f"{computed:+.1f} years at one doubling per {self.doubling_years:g} years"
+            f"needs 2^{log2q:.1f} physical qubits against {ref:.3g} for {REFERENCE_NAME} under "
+            f"{self.reference_method}, like-with-like: both costed on the generic surface-code "
+            "layer"
         )
-        if beyond:
-            text += f", beyond the {self.params.planning_horizon_years:g}-year planning horizon"
-        return row(basis, log2q, shift, computed, text)
+        return self._timed(spec, log2q, ref, basis, text)
 
     def shift_years(self, spec: AlgorithmSpec) -> float:
         """Years after the reference task's arrival that ``spec`` falls (inf = beyond horizon)."""
         return self.explain(spec).shift_years
+
+
+def _signed(shift: float) -> str:
+    return "beyond horizon" if math.isinf(shift) else f"{shift:+.1f}"

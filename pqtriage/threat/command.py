@@ -19,7 +19,7 @@ from pqtriage.threat.estimate import Estimate, estimate
 from pqtriage.threat.methods import MethodData, load_method_data
 from pqtriage.threat.parameters import ThreatParameters
 from pqtriage.threat.table import TARGETS, TableContext, side_by_side
-from pqtriage.threat.view import to_json_dict, working_view
+from pqtriage.threat.view import compact_qubits, to_json_dict, working_view
 
 OUTPUT_FORMATS: tuple[str, ...] = ("text", "json")
 Resolver = Callable[[str], "AlgorithmSpec | Resolution | None"]
@@ -146,14 +146,30 @@ def _context(
             seen.setdefault((targets[e.problem], e.method), e.method_is_default)
     methods = tuple((target, method, default) for (target, method), default in seen.items())
     notes: list[str] = []
-    with_layout = {m.id for m in data.shor_methods if m.layout is not None}
-    used = {method for _, method, _ in methods}
-    generic_curves = [m for t, m, _ in methods if t == "curves" and m not in with_layout]
-    if used & with_layout and generic_curves:
+    decided: dict[str, list[str]] = {}
+    grover = False
+    for e in estimates:
+        comparison = e.arrival.comparison if e.arrival is not None else None
+        grover = grover or (e.attack == "grover" and e.problem in targets)
+        if comparison is None or e.problem not in targets:
+            continue
+        pair = f"{comparison.method} vs {comparison.reference_method}"
+        pair += " (own layouts)" if comparison.own_layouts else " (generic)"
+        pairs = decided.setdefault(targets[e.problem], [])
+        if pair not in pairs:
+            pairs.append(pair)
+    if decided or grover:
+        listed = "; ".join(
+            f"{target} {', '.join(decided[target])}" for target in TARGETS if target in decided
+        )
+        if grover:
+            listed += ("; " if listed else "") + f"key search vs {model.reference_method} (generic)"
         notes.append(
-            f"Note: {', '.join(sorted(used & with_layout))} has a compact layout (dense storage, "
-            f"cultivation); {', '.join(generic_curves)} has none published, so curves may sit "
-            "later than they would with one (docs/threat-model.md)."
+            "Shifts compare like with like: both sides on one layer, their own layouts only if "
+            f"both have one, else the generic surface-code layer (RSA-2048 under "
+            f"{model.reference_method}: {compact_qubits(model.reference_generic_physical_qubits)}"
+            f"); the earliest credible pair decides{' unless named by --method' if model.methods else ''}. "
+            f"Pairs used: {listed} (docs/threat-model.md section 4)."
         )
     return TableContext(
         params=params,

@@ -143,6 +143,11 @@ class ShorMethod:
     """Short-exponent bits per bit of security strength (2)."""
     layout: PhysicalLayout | None = None
     """Method-level physical layout; None uses the generic surface-code layer."""
+    reference_counterpart: str = ""
+    """Factoring construction whose RSA-2048 cost this method's arrival is compared with
+    (itself for a factoring method)."""
+    arrival_exclusion: str = ""
+    """Why the method is left out of the cautious minimum of arrival shifts ('' = included)."""
 
 
 @dataclass(frozen=True)
@@ -293,6 +298,11 @@ def _method(row: Any, index: int) -> ShorMethod:
     ff = row.get("finite_field_dlog") or {}
     if "finite-field-dlog" in families and not ff:
         raise _fail(where, "covers finite-field-dlog but has no 'finite_field_dlog' block")
+    counterpart = str(row.get("reference_counterpart") or "")
+    if not counterpart:
+        if "factoring" not in families:
+            raise _fail(where, "needs 'reference_counterpart' (a factoring method to compare with)")
+        counterpart = str(row["id"])
     toffoli = _quantity(row, "toffoli_count", where)
     if toffoli.per_toffoli is not None:
         raise _fail(where, "toffoli_count cannot be per_toffoli")
@@ -313,6 +323,8 @@ def _method(row: Any, index: int) -> ShorMethod:
         ff_dlog_exponent_per_bit=ff.get("dlog_exponent_per_exponent_bit"),
         ff_exponent_bits_per_strength_bit=ff.get("exponent_bits_per_strength_bit"),
         layout=_layout(row.get("physical_layout"), where),
+        reference_counterpart=counterpart,
+        arrival_exclusion=" ".join(str(row.get("arrival_exclusion") or "").split()),
     )
 
 
@@ -324,6 +336,13 @@ def parse_method_data(document: Any) -> MethodData:
     ids = [m.id for m in methods]
     if len(set(ids)) != len(ids):
         raise _fail("shor_methods", "duplicate method id")
+    for m in methods:
+        counterpart = next((c for c in methods if c.id == m.reference_counterpart), None)
+        if counterpart is None or "factoring" not in counterpart.families:
+            raise _fail(
+                f"shor_methods ({m.id})",
+                f"reference_counterpart {m.reference_counterpart!r} is not a factoring method",
+            )
     for family in FAMILIES:
         count = sum(family in m.default_for for m in methods)
         if count != 1:

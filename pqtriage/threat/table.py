@@ -186,9 +186,10 @@ def _legend(context: TableContext) -> Text:
             f"doubles every {p.doubling_years:g} y, MAXDEPTH 2^{p.maxdepth_log2:g}{reference}."
         ),
         (
-            f"shift = {p.doubling_years:g} x log2(qubits / reference); beyond horizon: over "
-            f"{p.planning_horizon_years:g} y. Qubits: physical, one run (Shor); q-bits: "
-            "quantum security bits (Grover)."
+            f"shift = {p.doubling_years:g} x log2(qubits / reference qubits), both costed like "
+            "with like (so not always the qubits shown); beyond horizon: over "
+            f"{p.planning_horizon_years:g} y. Qubits: physical, one run (Shor); q-bits: quantum "
+            "security bits (Grover)."
         ),
     ]
     if context.profile is not None:

@@ -65,6 +65,12 @@ def test_every_construction_of_the_issue_is_a_sourced_row() -> None:
             ),
             "below 1",
         ),
+        # A curve construction must name the factoring method its arrival is compared with.
+        (lambda d: d["shor_methods"][3].pop("reference_counterpart"), "reference_counterpart"),
+        (
+            lambda d: d["shor_methods"][3].update(reference_counterpart="2306.08585"),
+            "is not a factoring method",
+        ),
     ],
 )
 def test_malformed_rows_raise_catalog_errors(mutate: object, message: str) -> None:

@@ -45,8 +45,9 @@ def test_side_by_side_exact_text_with_grouping_and_legend() -> None:
         "methods: factoring 1905.09749; collisions: classical bound.",
         "assumptions: error rate 0.001, cycle 1 us, reaction 10 us, run failure <= 0.25, capacity doubles",
         "  every 2 y, MAXDEPTH 2^64; reference RSA-2048 20 M qubits.",
-        "shift = 2 x log2(qubits / reference); beyond horizon: over 100 y. Qubits: physical, one run",
-        "  (Shor); q-bits: quantum security bits (Grover).",
+        "shift = 2 x log2(qubits / reference qubits), both costed like with like (so not always the qubits",
+        "  shown); beyond horizon: over 100 y. Qubits: physical, one run (Shor); q-bits: quantum security",
+        "  bits (Grover).",
         "falls: year at 10% risk tolerance / median, profile test, given no CRQC by 2026-04-01.",
         "Caution: estimates are uncertain by years; official guidance and deadlines come first.",
     ]
