@@ -51,7 +51,7 @@ def load_review(path: str, profile: str | None, as_of: Any, cbom_defaults: str |
 
     inventory = load_inventory_with_side_file(path, cbom_defaults)
     threat = load_profile(profile)
-    result = triage(inventory, load_catalog(), threat, arrival_model_for(threat), as_of)
+    result = triage(inventory, load_catalog(), threat, arrival_model_for(threat, as_of), as_of)
     return review_of_result(result, path)
 
 
