@@ -23,6 +23,8 @@ MAX_FILE_BYTES = 64 * 1024 * 1024
 """Largest input accepted (64 MiB): far above a 100k-use inventory, far below memory trouble."""
 MAX_DEPTH = 64
 """Deepest nesting accepted; the inventory format needs 5 levels."""
+_STR_TAG = "tag:yaml.org,2002:str"
+
 MAX_NODES = 5_000_000
 """Most values one document may expand to, aliases included (stops alias bombs)."""
 
@@ -100,7 +102,8 @@ def load_yaml(text: str, path: str, error: ErrorFactory) -> Node | None:
     if root is None:
         return None
     converter = _Converter(path, error)
-    converter.check_size(root)
+    if "&" in text:  # without an anchor there is no alias, so nothing can expand
+        converter.check_size(root)
     return converter.convert(root)
 
 
@@ -146,7 +149,9 @@ class _Converter:
     def place(self, node: yaml.Node) -> Place:
         return Place(self.path, node.start_mark.line + 1, node.start_mark.column + 1)
 
-    def convert(self, node: yaml.Node, depth: int = 0) -> Node:
+    def convert(
+        self, node: yaml.Node, depth: int = 0, key_line: int | None = None, key_column: int | None = None
+    ) -> Node:
         self.count += 1
         if self.count > MAX_NODES:
             raise self.error(
@@ -162,6 +167,8 @@ class _Converter:
             )
         line, column = node.start_mark.line + 1, node.start_mark.column + 1
         if isinstance(node, yaml.ScalarNode):
+            if node.tag == _STR_TAG:  # the common case: the constructor would return node.value
+                return Node(node.value, line, column, key_line, key_column, _STR_TAG)
             try:
                 value = self.constructor.construct_object(node)
             except (yaml.YAMLError, ValueError, OverflowError) as exc:
@@ -172,9 +179,10 @@ class _Converter:
                 value, (str, int, float, bool, type(None))
             ):
                 value = str(node.value)  # dates, binary, timestamps: keep the text as written
-            return Node(value, line, column, tag=node.tag)
+            return Node(value, line, column, key_line, key_column, node.tag)
         if isinstance(node, yaml.SequenceNode):
-            return Node([self.convert(item, depth + 1) for item in node.value], line, column, tag=node.tag)
+            items = [self.convert(item, depth + 1) for item in node.value]
+            return Node(items, line, column, key_line, key_column, node.tag)
         if isinstance(node, yaml.MappingNode):
             result: dict[str, Node] = {}
             for key_node, value_node in node.value:
@@ -194,16 +202,9 @@ class _Converter:
                         place=self.place(key_node),
                         hint="keep one of them",
                     )
-                child = self.convert(value_node, depth + 1)
-                result[key] = Node(
-                    child.value,
-                    child.line,
-                    child.column,
-                    key_line=key_node.start_mark.line + 1,
-                    key_column=key_node.start_mark.column + 1,
-                    tag=child.tag,
-                )
-            return Node(result, line, column, tag=node.tag)
+                key_mark = key_node.start_mark
+                result[key] = self.convert(value_node, depth + 1, key_mark.line + 1, key_mark.column + 1)
+            return Node(result, line, column, key_line, key_column, node.tag)
         raise self.error("unsupported YAML node", place=self.place(node))  # pragma: no cover
 
 
