@@ -7,6 +7,9 @@ invalid UTF-8 and NUL bytes are refused with a one-line error naming the place.
 
 from __future__ import annotations
 
+import gc
+from collections.abc import Iterator
+from contextlib import contextmanager
 from dataclasses import dataclass
 from typing import Callable
 
@@ -19,16 +22,17 @@ try:  # The C loader is much faster; fall back to the pure-Python safe loader.
 except ImportError:  # pragma: no cover - depends on how PyYAML was built
     from yaml import SafeLoader as _Loader  # type: ignore[assignment]
 
-MAX_FILE_BYTES = 32 * 1024 * 1024
-"""Largest input accepted (32 MiB): a 100k-use inventory is about 12 MiB; larger files
+MAX_FILE_BYTES = 16 * 1024 * 1024
+"""Largest input accepted (16 MiB): a 100k-use inventory is about 12 MiB; larger files
 cannot be triaged within bounded time and memory (see docs/hardening.md)."""
 MAX_DEPTH = 64
 """Deepest nesting accepted; the inventory format needs 5 levels."""
 _STR_TAG = "tag:yaml.org,2002:str"
+_INT_TAG = "tag:yaml.org,2002:int"
 
-MAX_NODES = 2_000_000
+MAX_NODES = 1_000_000
 """Most values one document may expand to, aliases included (stops alias bombs and
-flow-list floods; a 100k-use inventory has about 600k)."""
+flow-list floods while parsing; a 100k-use inventory has about 600k)."""
 
 
 @dataclass(frozen=True)
@@ -74,6 +78,22 @@ def decode_text(data: bytes, path: str, error: ErrorFactory) -> str:
     return text
 
 
+@contextmanager
+def paused_gc() -> Iterator[None]:
+    """Pause the cyclic garbage collector while building large acyclic trees.
+
+    Its full collections rescan every live object, so building 600k nodes with it
+    running costs time that grows faster than the input (common practice, no source).
+    """
+    enabled = gc.isenabled()
+    gc.disable()
+    try:
+        yield
+    finally:
+        if enabled:
+            gc.enable()
+
+
 def load_yaml(text: str, path: str, error: ErrorFactory) -> Node | None:
     """Parse one YAML document into positioned Nodes (None for an empty document).
 
@@ -92,7 +112,8 @@ def load_yaml(text: str, path: str, error: ErrorFactory) -> Node | None:
             hint="split the inventory into several files",
         )
     try:
-        return _Builder(path, error).build(yaml.parse(text, Loader=_Loader))
+        with paused_gc():
+            return _Builder(path, error).build(yaml.parse(text, Loader=_Loader))
     except yaml.MarkedYAMLError as exc:
         mark = exc.problem_mark or exc.context_mark
         place = Place(path, mark.line + 1, mark.column + 1) if mark else Place(path)
@@ -136,11 +157,14 @@ class _Builder:
         return Place(self.path, event.start_mark.line + 1, event.start_mark.column + 1)
 
     def too_many(self, event: yaml.Event) -> PqtriageError:
-        return self.error(
-            f"the document expands to more than {MAX_NODES:,} values (an alias bomb?)",
-            place=self.place(event),
-            hint="remove repeated aliases (*name), or split the file",
-        )
+        if isinstance(event, yaml.AliasEvent):
+            return self.error(
+                f"the document expands to more than {MAX_NODES:,} values (an alias bomb?)",
+                place=self.place(event),
+                hint="remove repeated aliases (*name)",
+            )
+        return self.error(f"the document has more than {MAX_NODES:,} values", place=self.place(event),
+                          hint="split the inventory into several files")
 
     def too_deep(self, event: yaml.Event, alias: bool = False) -> PqtriageError:
         return self.error(
@@ -156,9 +180,20 @@ class _Builder:
         line, column = event.start_mark.line + 1, event.start_mark.column + 1
         if tag == _STR_TAG:  # the common case: the constructor would return the text itself
             return Node(event.value, line, column, key[0], key[1], tag)
+        text = event.value
+        if tag == _INT_TAG and text.isascii() and text.isdigit() and (text[0] != "0" or text == "0"):
+            try:  # plain decimal: the constructor's answer without its cost (a flood is millions)
+                return Node(int(text), line, column, key[0], key[1], tag)
+            except ValueError as exc:  # more digits than Python converts
+                raise self.error(f"cannot read value {text[:40]!r}", place=self.place(event)) from exc
         node = yaml.ScalarNode(tag, event.value, event.start_mark, event.end_mark, event.style)
+        construct = self.constructor.yaml_constructors.get(tag)
+        if construct is None:  # an unknown or unsafe tag (!!python/...): never constructed
+            raise self.error(f"cannot read value {event.value[:40]!r}: tag {tag[:60]!r} is not supported",
+                             place=self.place(event), hint="remove the tag")
         try:
-            value = self.constructor.construct_object(node)
+            # Called directly: construct_object would keep every node in a cache for the whole file.
+            value = construct(self.constructor, node)
         except (yaml.YAMLError, ValueError, OverflowError) as exc:
             raise self.error(f"cannot read value {event.value[:40]!r}", place=self.place(event)) from exc
         if isinstance(value, (bytes, bytearray)) or not isinstance(value, (str, int, float, bool, type(None))):
