@@ -21,7 +21,7 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
-from bench.common import Figure, best_of, main_for, pqtriage_argv, work_dir  # noqa: E402
+from bench.common import Figure, best_of, main_for, pqtriage_argv, work_dir
 
 GOAL_SPEEDUP = 10.0
 DELAY = 0.1
@@ -39,7 +39,7 @@ def _certificate(folder: Path) -> tuple[Path, Path]:
 
     key = ec.generate_private_key(ec.SECP256R1())
     name = x509.Name([x509.NameAttribute(NameOID.COMMON_NAME, "localhost")])
-    now = dt.datetime.now(dt.timezone.utc)
+    now = dt.datetime.now(dt.UTC)
     cert = (x509.CertificateBuilder().subject_name(name).issuer_name(name).public_key(key.public_key())
             .serial_number(1).not_valid_before(now - dt.timedelta(days=1))
             .not_valid_after(now + dt.timedelta(days=30)).sign(key, hashes.SHA256()))

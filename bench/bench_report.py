@@ -12,9 +12,9 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
-from bench.bench_triage import AS_OF, LINEAR_EXPONENT, growth_exponent, triage_args  # noqa: E402
-from bench.common import Figure, best_of, main_for, mib, pqtriage_argv, profile_summary, work_dir  # noqa: E402
-from bench.synthetic import write_inventory  # noqa: E402
+from bench.bench_triage import AS_OF, LINEAR_EXPONENT, growth_exponent, triage_args
+from bench.common import Figure, best_of, main_for, mib, pqtriage_argv, profile_summary, work_dir
+from bench.synthetic import write_inventory
 
 GOAL_RATIO = 2.0
 

@@ -16,7 +16,7 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
-from bench.common import Figure, best_of, main_for, pqtriage_argv, profile_summary, work_dir  # noqa: E402
+from bench.common import Figure, best_of, main_for, pqtriage_argv, profile_summary, work_dir
 
 GOAL_RATIO = 2.0
 SCAN_ARGS = ("scan", "{folder}", "--format", "json", "-o", "{out}")
@@ -41,9 +41,9 @@ def write_certificates(folder: Path, count: int) -> Path:
     from cryptography.hazmat.primitives.asymmetric import ec, rsa
     from cryptography.x509.oid import NameOID
 
-    keys = [ec.generate_private_key(ec.SECP256R1()), ec.generate_private_key(ec.SECP384R1()),
+    keys: list[ec.EllipticCurvePrivateKey | rsa.RSAPrivateKey] = [ec.generate_private_key(ec.SECP256R1()), ec.generate_private_key(ec.SECP384R1()),
             rsa.generate_private_key(public_exponent=65537, key_size=2048)]
-    start = dt.datetime(2026, 1, 1, tzinfo=dt.timezone.utc)
+    start = dt.datetime(2026, 1, 1, tzinfo=dt.UTC)
     for index in range(count):
         key = keys[index % len(keys)]
         name = x509.Name([x509.NameAttribute(NameOID.COMMON_NAME, f"host-{index}.example.invalid")])

@@ -13,8 +13,8 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
-from bench.common import Figure, best_of, main_for, mib, pqtriage_argv, profile_summary, work_dir  # noqa: E402
-from bench.synthetic import write_inventory  # noqa: E402
+from bench.common import Figure, best_of, main_for, mib, pqtriage_argv, profile_summary, work_dir
+from bench.synthetic import write_inventory
 
 AS_OF = "2026-12-01"
 GOAL_RATIO = 3.0

@@ -17,9 +17,10 @@ import subprocess
 import sys
 import tempfile
 import time
+from collections.abc import Callable
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
-from typing import Any, Callable
+from typing import Any
 
 ROOT = Path(__file__).resolve().parent.parent
 """The checkout the benchmarks measure (its pqtriage is imported, not an installed one)."""
@@ -106,7 +107,7 @@ def profile_summary(args: list[str], lines: int = 18) -> str:
         f"pstats.Stats(prof, stream=out).strip_dirs().sort_stats('cumulative').print_stats({lines})\n"
         "sys.stderr.write(out.getvalue())\n"
     )
-    result = subprocess.run([sys.executable, "-c", code, *args], cwd=ROOT, env=child_env(),
+    result = subprocess.run([sys.executable, "-c", code, *args], check=False, cwd=ROOT, env=child_env(),
                             capture_output=True, text=True, timeout=1200)
     text = result.stderr
     start = text.find("ncalls")
@@ -153,12 +154,14 @@ def machine_info() -> dict[str, str]:
                 break
     except OSError:
         pass
+    from importlib import metadata
+
     versions = {}
-    for module in ("yaml", "rich", "typer", "cryptography", "hypothesis"):
+    for package in ("PyYAML", "rich", "typer", "cryptography", "hypothesis"):
         try:
-            versions[module] = __import__(module).__version__
-        except Exception:  # noqa: BLE001 - a missing package is only a note here
-            versions[module] = "absent"
+            versions[package] = metadata.version(package)
+        except metadata.PackageNotFoundError:
+            versions[package] = "absent"
     try:
         import yaml
 
@@ -166,7 +169,7 @@ def machine_info() -> dict[str, str]:
     except ImportError:
         c_loader = "no"
     return {
-        "date": dt.datetime.now(dt.timezone.utc).strftime("%Y-%m-%d %H:%M UTC"),
+        "date": dt.datetime.now(dt.UTC).strftime("%Y-%m-%d %H:%M UTC"),
         "cpu": cpu,
         "cores": str(os.cpu_count()),
         "memory": memory,

@@ -16,7 +16,7 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
-from bench.common import ROOT, child_env, machine_info  # noqa: E402
+from bench.common import ROOT, child_env, machine_info
 
 SCRIPTS = ("bench_triage.py", "bench_report.py", "bench_scan.py", "bench_cold_start.py", "bench_probe.py")
 """One script per figure, in the order of the issue."""
@@ -82,7 +82,7 @@ def main() -> int:
             if args.quick:
                 argv.append("--quick")
             print(f"running {script} ...", flush=True)
-            done = subprocess.run(argv, cwd=ROOT, env=child_env(), text=True, capture_output=True)
+            done = subprocess.run(argv, check=False, cwd=ROOT, env=child_env(), text=True, capture_output=True)
             sys.stdout.write(done.stdout)
             if done.returncode != 0 or not out.exists():
                 figures.append({"name": script, "measured": script, "floor": "-", "goal": "-", "met": False,

@@ -8,10 +8,10 @@ invalid UTF-8 and NUL bytes are refused with a one-line error naming the place.
 from __future__ import annotations
 
 import gc
-from collections.abc import Iterator
+from collections.abc import Callable, Iterator
 from contextlib import contextmanager
 from dataclasses import dataclass
-from typing import Callable
+from typing import Any
 
 import yaml
 
@@ -123,17 +123,34 @@ def load_yaml(text: str, path: str, error: ErrorFactory) -> Node | None:
         raise error(f"invalid YAML: {' '.join(str(exc).split())}", place=Place(path)) from exc
 
 
+def _position(event: Any) -> tuple[int, int]:
+    """1-based line and column where an event starts."""
+    mark = event.start_mark
+    return (mark.line + 1, mark.column + 1) if mark is not None else (1, 1)
+
+
 class _Open:
     """A sequence or mapping whose end event has not come yet."""
 
-    __slots__ = ("mapping", "items", "pending_key", "line", "column", "tag", "anchor", "size", "height",
-                 "key_line", "key_column")
+    __slots__ = (
+        "anchor",
+        "column",
+        "height",
+        "items",
+        "key_column",
+        "key_line",
+        "line",
+        "mapping",
+        "pending_key",
+        "size",
+        "tag",
+    )
 
     def __init__(self, mapping: bool, event: yaml.Event, tag: str, key: tuple[int | None, int | None]):
         self.mapping = mapping
         self.items: list[Node] | dict[str, Node] = {} if mapping else []
         self.pending_key: tuple[str, int, int] | None = None
-        self.line, self.column = event.start_mark.line + 1, event.start_mark.column + 1
+        self.line, self.column = _position(event)
         self.tag = tag
         self.anchor: str | None = getattr(event, "anchor", None)
         self.size = 1
@@ -154,7 +171,7 @@ class _Builder:
         self.open_anchors: set[str] = set()
 
     def place(self, event: yaml.Event) -> Place:
-        return Place(self.path, event.start_mark.line + 1, event.start_mark.column + 1)
+        return Place(self.path, *_position(event))
 
     def too_many(self, event: yaml.Event) -> PqtriageError:
         if isinstance(event, yaml.AliasEvent):
@@ -177,7 +194,7 @@ class _Builder:
         tag = event.tag
         if tag is None or tag == "!":
             tag = self.resolver.resolve(yaml.ScalarNode, event.value, event.implicit)
-        line, column = event.start_mark.line + 1, event.start_mark.column + 1
+        line, column = _position(event)
         if tag == _STR_TAG:  # the common case: the constructor would return the text itself
             return Node(event.value, line, column, key[0], key[1], tag)
         text = event.value
@@ -186,7 +203,8 @@ class _Builder:
                 return Node(int(text), line, column, key[0], key[1], tag)
             except ValueError as exc:  # more digits than Python converts
                 raise self.error(f"cannot read value {text[:40]!r}", place=self.place(event)) from exc
-        node = yaml.ScalarNode(tag, event.value, event.start_mark, event.end_mark, event.style)
+        marks: Any = (event.start_mark, event.end_mark)
+        node = yaml.ScalarNode(tag, event.value, marks[0], marks[1], event.style)
         construct = self.constructor.yaml_constructors.get(tag)
         if construct is None:  # an unknown or unsafe tag (!!python/...): never constructed
             raise self.error(f"cannot read value {event.value[:40]!r}: tag {tag[:60]!r} is not supported",
@@ -261,10 +279,8 @@ class _Builder:
                 if len(stack) + height > MAX_DEPTH:
                     raise self.too_deep(event, alias=True)
                 node = Node(target.value, target.line, target.column, key[0], key[1], target.tag)
-            else:  # ScalarEvent
-                self.count += 1
-                if self.count > MAX_NODES:
-                    raise self.too_many(event)
+            else:
+                assert isinstance(event, yaml.ScalarEvent)
                 if parent is not None and parent.mapping and parent.pending_key is None:
                     name = event.value
                     tag = event.tag
@@ -278,9 +294,11 @@ class _Builder:
                     if name in items:
                         raise self.error(f"duplicate key '{name}' (first at line {items[name].key_line})",
                                          place=self.place(event), hint="keep one of them")
-                    parent.pending_key = (name, event.start_mark.line + 1, event.start_mark.column + 1)
-                    parent.size += 1
-                    continue
+                    parent.pending_key = (name, *_position(event))
+                    continue  # keys are not counted: each comes with a value that is
+                self.count += 1
+                if self.count > MAX_NODES:
+                    raise self.too_many(event)
                 node = self.scalar(event, key)
                 if event.anchor is not None:
                     self.anchors[event.anchor] = (node, 1, 0)

@@ -75,7 +75,8 @@ def test_completed_write_leaves_no_temporary_file(tmp_path: Path) -> None:
     target = tmp_path / "out.json"
     target.write_text(PREVIOUS, encoding="utf-8")
     code = "import sys; from pqtriage.output import write_atomic; write_atomic(sys.argv[1], 'new\\n')"
-    assert subprocess.run([sys.executable, "-c", code, str(target)], cwd=ROOT, env=CHILD_ENV).returncode == 0
+    done = subprocess.run([sys.executable, "-c", code, str(target)], check=False, cwd=ROOT, env=CHILD_ENV)
+    assert done.returncode == 0
     assert target.read_text(encoding="utf-8") == "new\n"
     assert _leftovers(tmp_path, "out.json") == []
 

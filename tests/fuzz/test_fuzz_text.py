@@ -18,7 +18,7 @@ from pqtriage.formats.text import csv_cell, markdown_code, markdown_text, visibl
 
 pytestmark = pytest.mark.fuzz
 
-ANY_TEXT = st.text(st.characters(blacklist_categories=("Cs",)), max_size=200)
+ANY_TEXT = st.text(st.characters(blacklist_categories=["Cs"]), max_size=200)
 CONTROL = re.compile("[\x00-\x1f\x7f-\x9f\u202a-\u202e\u2066-\u2069]")
 
 

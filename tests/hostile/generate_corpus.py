@@ -10,8 +10,8 @@ traceback.
 from __future__ import annotations
 
 import sys
+from collections.abc import Callable
 from pathlib import Path
-from typing import Callable
 
 VALID = """\
 version: 1

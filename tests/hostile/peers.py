@@ -20,6 +20,7 @@ import struct
 import threading
 import time
 from types import TracebackType
+from typing import Self
 
 BEHAVIOURS = ("garbage", "stall", "reset", "ssh-endless-banner", "ssh-oversized-packet")
 
@@ -50,7 +51,7 @@ class HostilePeer:
         """host:port text, as a probe target."""
         return f"{self.address[0]}:{self.address[1]}"
 
-    def __enter__(self) -> HostilePeer:
+    def __enter__(self) -> Self:
         self.thread.start()
         return self
 

@@ -4,14 +4,22 @@ from __future__ import annotations
 
 from hypothesis import strategies as st
 
-from pqtriage.model.inventory import Criticality, CryptoUse, Exposure, Inventory, Purpose, SourceRef, System
+from pqtriage.model.inventory import (
+    Criticality,
+    CryptoUse,
+    Exposure,
+    Inventory,
+    Purpose,
+    SourceRef,
+    System,
+)
 
 ALGORITHMS = ("RSA-2048", "RSA-3072", "ECDSA P-256", "X25519", "ML-KEM-768", "ML-DSA-65", "AES-128-GCM",
               "AES-256-GCM", "SHA-256", "3DES", "Kuznyechik", "TLS_AES_128_GCM_SHA256")
 """A mix of Shor-attackable, Grover-only, quantum-resistant, broken and unknown names."""
 
 # Any text a person could type: no surrogates (not encodable), no NUL (refused by the reader).
-TEXT = st.text(st.characters(blacklist_categories=("Cs",), blacklist_characters="\x00"),
+TEXT = st.text(st.characters(blacklist_categories=["Cs"], blacklist_characters="\x00"),
                min_size=1, max_size=24).filter(lambda s: s.strip() != "")
 YEARS = st.one_of(st.integers(0, 50).map(float), st.floats(0, 50, allow_nan=False).map(lambda v: round(v, 3)))
 

@@ -11,11 +11,12 @@ from __future__ import annotations
 
 import datetime as dt
 import io
+import itertools
 import json
 import re
 from collections import Counter
 from collections.abc import Callable
-from functools import lru_cache
+from functools import cache
 
 from hypothesis import assume, given, settings
 from hypothesis import strategies as st
@@ -37,7 +38,7 @@ AS_OF = dt.date(2026, 12, 1)
 PROFILES = ("survey-2025-upper", "survey-2025-lower")
 
 
-@lru_cache(maxsize=None)
+@cache
 def _setup(profile_name: str) -> tuple:
     profile = load_profile(profile_name)
     return load_catalog(), profile, arrival_model_for(profile)
@@ -107,7 +108,7 @@ def test_ranking_is_a_deterministic_total_order(inventory: Inventory, random: ob
     assert [i.system.id for i in first.items] == [i.system.id for i in second.items]
     assert [i.rank for i in first.items] == list(range(1, len(first.items) + 1))
     keys = [rank_key(i) for i in first.items]
-    assert all(a < b for a, b in zip(keys, keys[1:])), "strictly increasing: no ties, a total order"
+    assert all(a < b for a, b in itertools.pairwise(keys)), "strictly increasing: no ties, a total order"
 
 
 SHOR = ("RSA-2048", "RSA-3072", "ECDSA P-256", "X25519", "ECDH P-384")
