@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import os
+import stat
 import tempfile
 from pathlib import Path
 
@@ -11,6 +12,30 @@ from pqtriage.errors import PqtriageError, Place
 
 class OutputError(PqtriageError):
     """An output file cannot be written."""
+
+
+def _mode_for(target: Path) -> int:
+    """The replaced file's permissions, or those the umask gives a new file."""
+    try:
+        return stat.S_IMODE(os.stat(target).st_mode)
+    except OSError:
+        umask = os.umask(0o022)
+        os.umask(umask)
+        return 0o666 & ~umask
+
+
+def _sync_folder(folder: Path) -> None:
+    """Make the rename itself durable (POSIX: fsync on the directory); best effort."""
+    try:
+        descriptor = os.open(folder, os.O_RDONLY)
+    except OSError:
+        return
+    try:
+        os.fsync(descriptor)
+    except OSError:
+        pass
+    finally:
+        os.close(descriptor)
 
 
 def write_atomic(path: str | Path, text: str) -> None:
@@ -23,15 +48,13 @@ def write_atomic(path: str | Path, text: str) -> None:
         raise OutputError(f"cannot write: {exc.strerror}", place=Place(str(path)),
                           hint="check that the folder exists and is writable") from exc
     try:
+        os.fchmod(handle, _mode_for(target))  # mkstemp makes 0600; keep what a plain write would give
         with os.fdopen(handle, "w", encoding="utf-8", newline="\n") as stream:
             stream.write(text)
             stream.flush()
             os.fsync(stream.fileno())
-        # mkstemp creates the file private (0600); give it the permissions a plain open() would.
-        umask = os.umask(0)
-        os.umask(umask)
-        os.chmod(temp, 0o666 & ~umask)
         os.replace(temp, target)
+        _sync_folder(folder)
     except OSError as exc:
         try:
             os.unlink(temp)

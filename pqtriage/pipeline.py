@@ -17,14 +17,22 @@ from pqtriage.model.triage import triage
 from pqtriage.model.verdict import TriageResult
 
 
+AS_OF_RANGE = (dt.date(1970, 1, 1), dt.date(2199, 12, 31))
+"""Dates --as-of accepts: beyond them arrival years and start dates leave the calendar."""
+
+
 def parse_as_of(text: str | None) -> dt.date:
     """The --as-of date, or today."""
     if text is None:
         return dt.date.today()
     try:
-        return dt.date.fromisoformat(text)
+        date = dt.date.fromisoformat(text)
     except ValueError as exc:
         raise UsageError(f"--as-of {text!r} is not a date", hint="write YYYY-MM-DD") from exc
+    if not AS_OF_RANGE[0] <= date <= AS_OF_RANGE[1]:
+        raise UsageError(f"--as-of {text} is outside {AS_OF_RANGE[0].year}-{AS_OF_RANGE[1].year}",
+                         hint="give a date within the planning range")
+    return date
 
 
 def arrival_model_for(profile: ThreatProfile, as_of: dt.date | None = None) -> ArrivalModel:

@@ -7,8 +7,11 @@ invalid UTF-8 and NUL bytes are refused with a one-line error naming the place.
 
 from __future__ import annotations
 
+import gc
+from collections.abc import Callable, Iterator
+from contextlib import contextmanager
 from dataclasses import dataclass
-from typing import Callable
+from typing import Any
 
 import yaml
 
@@ -19,12 +22,17 @@ try:  # The C loader is much faster; fall back to the pure-Python safe loader.
 except ImportError:  # pragma: no cover - depends on how PyYAML was built
     from yaml import SafeLoader as _Loader  # type: ignore[assignment]
 
-MAX_FILE_BYTES = 64 * 1024 * 1024
-"""Largest input accepted (64 MiB): far above a 100k-use inventory, far below memory trouble."""
+MAX_FILE_BYTES = 16 * 1024 * 1024
+"""Largest input accepted (16 MiB): a 100k-use inventory is about 12 MiB; larger files
+cannot be triaged within bounded time and memory (see docs/hardening.md)."""
 MAX_DEPTH = 64
 """Deepest nesting accepted; the inventory format needs 5 levels."""
-MAX_NODES = 5_000_000
-"""Most values one document may expand to, aliases included (stops alias bombs)."""
+_STR_TAG = "tag:yaml.org,2002:str"
+_INT_TAG = "tag:yaml.org,2002:int"
+
+MAX_NODES = 1_000_000
+"""Most values one document may expand to, aliases included (stops alias bombs and
+flow-list floods while parsing; a 100k-use inventory has about 600k)."""
 
 
 @dataclass(frozen=True)
@@ -70,8 +78,27 @@ def decode_text(data: bytes, path: str, error: ErrorFactory) -> str:
     return text
 
 
+@contextmanager
+def paused_gc() -> Iterator[None]:
+    """Pause the cyclic garbage collector while building large acyclic trees.
+
+    Its full collections rescan every live object, so building 600k nodes with it
+    running costs time that grows faster than the input (common practice, no source).
+    """
+    enabled = gc.isenabled()
+    gc.disable()
+    try:
+        yield
+    finally:
+        if enabled:
+            gc.enable()
+
+
 def load_yaml(text: str, path: str, error: ErrorFactory) -> Node | None:
     """Parse one YAML document into positioned Nodes (None for an empty document).
+
+    Nodes are built straight from the parser's events, so memory and time stay
+    bounded by MAX_NODES and MAX_DEPTH while parsing, before any alias is expanded.
 
     Args:
         text: the document.
@@ -85,126 +112,210 @@ def load_yaml(text: str, path: str, error: ErrorFactory) -> Node | None:
             hint="split the inventory into several files",
         )
     try:
-        root = yaml.compose(text, Loader=_Loader)
+        with paused_gc():
+            return _Builder(path, error).build(yaml.parse(text, Loader=_Loader))
     except yaml.MarkedYAMLError as exc:
         mark = exc.problem_mark or exc.context_mark
         place = Place(path, mark.line + 1, mark.column + 1) if mark else Place(path)
         problem = exc.problem or exc.context or "invalid YAML"
         raise error(f"invalid YAML: {problem}", place=place, hint="check indentation and quoting") from exc
     except yaml.YAMLError as exc:
-        raise error(f"invalid YAML: {exc}", place=Place(path)) from exc
-    except RecursionError as exc:
-        raise error(
-            f"nesting deeper than {MAX_DEPTH} levels", place=Place(path), hint="flatten the document"
-        ) from exc
-    if root is None:
-        return None
-    converter = _Converter(path, error)
-    converter.check_size(root)
-    return converter.convert(root)
+        raise error(f"invalid YAML: {' '.join(str(exc).split())}", place=Place(path)) from exc
 
 
-class _Converter:
-    """Turns composed yaml nodes into Nodes, enforcing depth, size and unique keys."""
+def _position(event: Any) -> tuple[int, int]:
+    """1-based line and column where an event starts."""
+    mark = event.start_mark
+    return (mark.line + 1, mark.column + 1) if mark is not None else (1, 1)
+
+
+class _Open:
+    """A sequence or mapping whose end event has not come yet."""
+
+    __slots__ = (
+        "anchor",
+        "column",
+        "height",
+        "items",
+        "key_column",
+        "key_line",
+        "line",
+        "mapping",
+        "pending_key",
+        "size",
+        "tag",
+    )
+
+    def __init__(self, mapping: bool, event: yaml.Event, tag: str, key: tuple[int | None, int | None]):
+        self.mapping = mapping
+        self.items: list[Node] | dict[str, Node] = {} if mapping else []
+        self.pending_key: tuple[str, int, int] | None = None
+        self.line, self.column = _position(event)
+        self.tag = tag
+        self.anchor: str | None = getattr(event, "anchor", None)
+        self.size = 1
+        self.height = 0
+        self.key_line, self.key_column = key
+
+
+class _Builder:
+    """Turns parser events into Nodes, enforcing size, depth, unique keys and no merge keys."""
 
     def __init__(self, path: str, error: ErrorFactory):
         self.path = path
         self.error = error
         self.count = 0
         self.constructor = yaml.constructor.SafeConstructor()
+        self.resolver = yaml.resolver.Resolver()
+        self.anchors: dict[str, tuple[Node, int, int]] = {}  # node, size, height
+        self.open_anchors: set[str] = set()
 
-    def check_size(self, root: yaml.Node) -> None:
-        """Refuse documents whose aliases expand beyond MAX_NODES, before expanding them."""
-        sizes: dict[int, int] = {}
+    def place(self, event: yaml.Event) -> Place:
+        return Place(self.path, *_position(event))
 
-        def size(node: yaml.Node, depth: int) -> int:
-            known = sizes.get(id(node))
-            if known is not None:
-                return known
-            if depth > MAX_DEPTH:
-                raise self.error(
-                    f"nesting deeper than {MAX_DEPTH} levels",
-                    place=self.place(node),
-                    hint="flatten the document (or remove a self-referencing alias)",
-                )
-            total = 1
-            if isinstance(node, yaml.SequenceNode):
-                total += sum(size(item, depth + 1) for item in node.value)
-            elif isinstance(node, yaml.MappingNode):
-                total += sum(size(k, depth + 1) + size(v, depth + 1) for k, v in node.value)
-            if total > MAX_NODES:
-                raise self.error(
-                    f"the document expands to more than {MAX_NODES:,} values (an alias bomb?)",
-                    place=self.place(node),
-                    hint="remove repeated aliases (*name)",
-                )
-            sizes[id(node)] = total
-            return total
-
-        size(root, 0)
-
-    def place(self, node: yaml.Node) -> Place:
-        return Place(self.path, node.start_mark.line + 1, node.start_mark.column + 1)
-
-    def convert(self, node: yaml.Node, depth: int = 0) -> Node:
-        self.count += 1
-        if self.count > MAX_NODES:
-            raise self.error(
+    def too_many(self, event: yaml.Event) -> PqtriageError:
+        if isinstance(event, yaml.AliasEvent):
+            return self.error(
                 f"the document expands to more than {MAX_NODES:,} values (an alias bomb?)",
-                place=self.place(node),
+                place=self.place(event),
                 hint="remove repeated aliases (*name)",
             )
-        if depth > MAX_DEPTH:
-            raise self.error(
-                f"nesting deeper than {MAX_DEPTH} levels",
-                place=self.place(node),
-                hint="flatten the document",
-            )
-        line, column = node.start_mark.line + 1, node.start_mark.column + 1
-        if isinstance(node, yaml.ScalarNode):
-            try:
-                value = self.constructor.construct_object(node)
-            except (yaml.YAMLError, ValueError, OverflowError) as exc:
-                raise self.error(
-                    f"cannot read value {node.value[:40]!r}", place=self.place(node)
-                ) from exc
-            if isinstance(value, (bytes, bytearray)) or not isinstance(
-                value, (str, int, float, bool, type(None))
-            ):
-                value = str(node.value)  # dates, binary, timestamps: keep the text as written
-            return Node(value, line, column, tag=node.tag)
-        if isinstance(node, yaml.SequenceNode):
-            return Node([self.convert(item, depth + 1) for item in node.value], line, column, tag=node.tag)
-        if isinstance(node, yaml.MappingNode):
-            result: dict[str, Node] = {}
-            for key_node, value_node in node.value:
-                if key_node.tag == "tag:yaml.org,2002:merge":
-                    raise self.error(
-                        "merge keys (<<) are not supported",
-                        place=self.place(key_node),
-                        hint="write the fields out, or use the file's defaults section",
-                    )
-                if not isinstance(key_node, yaml.ScalarNode):
-                    raise self.error("a key must be plain text", place=self.place(key_node))
-                key = str(key_node.value)
-                if key in result:
-                    first = result[key]
-                    raise self.error(
-                        f"duplicate key '{key}' (first at line {first.key_line})",
-                        place=self.place(key_node),
-                        hint="keep one of them",
-                    )
-                child = self.convert(value_node, depth + 1)
-                result[key] = Node(
-                    child.value,
-                    child.line,
-                    child.column,
-                    key_line=key_node.start_mark.line + 1,
-                    key_column=key_node.start_mark.column + 1,
-                    tag=child.tag,
-                )
-            return Node(result, line, column, tag=node.tag)
-        raise self.error("unsupported YAML node", place=self.place(node))  # pragma: no cover
+        return self.error(f"the document has more than {MAX_NODES:,} values", place=self.place(event),
+                          hint="split the inventory into several files")
+
+    def too_deep(self, event: yaml.Event, alias: bool = False) -> PqtriageError:
+        return self.error(
+            f"nesting deeper than {MAX_DEPTH} levels",
+            place=self.place(event),
+            hint="flatten the document" + (" (or remove a self-referencing alias)" if alias else ""),
+        )
+
+    def scalar(self, event: yaml.ScalarEvent, key: tuple[int | None, int | None]) -> Node:
+        tag = event.tag
+        if tag is None or tag == "!":
+            tag = self.resolver.resolve(yaml.ScalarNode, event.value, event.implicit)
+        line, column = _position(event)
+        if tag == _STR_TAG:  # the common case: the constructor would return the text itself
+            return Node(event.value, line, column, key[0], key[1], tag)
+        text = event.value
+        if tag == _INT_TAG and text.isascii() and text.isdigit() and (text[0] != "0" or text == "0"):
+            try:  # plain decimal: the constructor's answer without its cost (a flood is millions)
+                return Node(int(text), line, column, key[0], key[1], tag)
+            except ValueError as exc:  # more digits than Python converts
+                raise self.error(f"cannot read value {text[:40]!r}", place=self.place(event)) from exc
+        marks: Any = (event.start_mark, event.end_mark)
+        node = yaml.ScalarNode(tag, event.value, marks[0], marks[1], event.style)
+        construct = self.constructor.yaml_constructors.get(tag)
+        if construct is None:  # an unknown or unsafe tag (!!python/...): never constructed
+            raise self.error(f"cannot read value {event.value[:40]!r}: tag {tag[:60]!r} is not supported",
+                             place=self.place(event), hint="remove the tag")
+        try:
+            # Called directly: construct_object would keep every node in a cache for the whole file.
+            value = construct(self.constructor, node)
+        except (yaml.YAMLError, ValueError, OverflowError) as exc:
+            raise self.error(f"cannot read value {event.value[:40]!r}", place=self.place(event)) from exc
+        if isinstance(value, (bytes, bytearray)) or not isinstance(value, (str, int, float, bool, type(None))):
+            value = str(event.value)  # dates, binary, timestamps: keep the text as written
+        return Node(value, line, column, key[0], key[1], tag)
+
+    def build(self, events: object) -> Node | None:
+        stack: list[_Open] = []
+        root: Node | None = None
+        documents = 0
+        for event in events:  # type: ignore[attr-defined]
+            if isinstance(event, yaml.DocumentStartEvent):
+                documents += 1
+                if documents > 1:
+                    raise self.error("invalid YAML: expected a single document in the stream",
+                                     place=self.place(event), hint="remove the second '---' document")
+                continue
+            if not isinstance(event, (yaml.NodeEvent, yaml.CollectionEndEvent)):
+                continue  # stream and document boundaries
+            parent = stack[-1] if stack else None
+            key: tuple[int | None, int | None] = (None, None)
+            if parent is not None and parent.mapping and parent.pending_key is not None:
+                key = parent.pending_key[1], parent.pending_key[2]
+            if isinstance(event, yaml.CollectionEndEvent):
+                done = stack.pop()
+                node = Node(done.items, done.line, done.column, done.key_line, done.key_column, done.tag)
+                if done.anchor is not None:
+                    self.anchors[done.anchor] = (node, done.size, done.height)
+                    self.open_anchors.discard(done.anchor)
+                size, height = done.size, done.height
+                parent = stack[-1] if stack else None
+                if parent is not None and parent.mapping:
+                    assert parent.pending_key is not None
+                    key = parent.pending_key[1], parent.pending_key[2]
+            elif isinstance(event, yaml.CollectionStartEvent):
+                self.count += 1
+                if self.count > MAX_NODES:
+                    raise self.too_many(event)
+                if len(stack) >= MAX_DEPTH:
+                    raise self.too_deep(event)
+                mapping = isinstance(event, yaml.MappingStartEvent)
+                tag = event.tag
+                if tag is None or tag == "!":
+                    kind = yaml.MappingNode if mapping else yaml.SequenceNode
+                    tag = self.resolver.resolve(kind, None, event.implicit)
+                if parent is not None and parent.mapping and parent.pending_key is None:
+                    raise self.error("a key must be plain text", place=self.place(event))
+                opened = _Open(mapping, event, tag, key)
+                if opened.anchor is not None:
+                    self.open_anchors.add(opened.anchor)
+                stack.append(opened)
+                continue
+            elif isinstance(event, yaml.AliasEvent):
+                if event.anchor in self.open_anchors:
+                    raise self.too_deep(event, alias=True)
+                if event.anchor not in self.anchors:
+                    raise self.error(f"invalid YAML: found undefined alias {event.anchor!r}",
+                                     place=self.place(event), hint="define the anchor (&name) first")
+                if parent is not None and parent.mapping and parent.pending_key is None:
+                    raise self.error("a key must be plain text", place=self.place(event))
+                target, size, height = self.anchors[event.anchor]
+                self.count += size
+                if self.count > MAX_NODES:
+                    raise self.too_many(event)
+                if len(stack) + height > MAX_DEPTH:
+                    raise self.too_deep(event, alias=True)
+                node = Node(target.value, target.line, target.column, key[0], key[1], target.tag)
+            else:
+                assert isinstance(event, yaml.ScalarEvent)
+                if parent is not None and parent.mapping and parent.pending_key is None:
+                    name = event.value
+                    tag = event.tag
+                    if tag is None or tag == "!":
+                        tag = self.resolver.resolve(yaml.ScalarNode, name, event.implicit)
+                    if tag == "tag:yaml.org,2002:merge":
+                        raise self.error("merge keys (<<) are not supported", place=self.place(event),
+                                         hint="write the fields out, or use the file's defaults section")
+                    items = parent.items
+                    assert isinstance(items, dict)
+                    if name in items:
+                        raise self.error(f"duplicate key '{name}' (first at line {items[name].key_line})",
+                                         place=self.place(event), hint="keep one of them")
+                    parent.pending_key = (name, *_position(event))
+                    continue  # keys are not counted: each comes with a value that is
+                self.count += 1
+                if self.count > MAX_NODES:
+                    raise self.too_many(event)
+                node = self.scalar(event, key)
+                if event.anchor is not None:
+                    self.anchors[event.anchor] = (node, 1, 0)
+                size, height = 1, 0
+            if parent is None:
+                root = node
+                continue
+            parent.size += size
+            parent.height = max(parent.height, height + 1)
+            if parent.mapping:
+                assert parent.pending_key is not None and isinstance(parent.items, dict)
+                parent.items[parent.pending_key[0]] = node
+                parent.pending_key = None
+            else:
+                assert isinstance(parent.items, list)
+                parent.items.append(node)
+        return root
 
 
 def plain(node: Node | None) -> object:

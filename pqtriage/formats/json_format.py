@@ -85,8 +85,8 @@ def system_dict(item: SystemAssessment) -> dict[str, Any]:
     }
 
 
-def result_dict(result: TriageResult) -> dict[str, Any]:
-    """The whole result as a JSON-ready dict."""
+def result_dict(result: TriageResult, with_items: bool = True) -> dict[str, Any]:
+    """The whole result as a JSON-ready dict (``items`` left empty when not with_items)."""
     summary = result.summary
     profile = result.profile
     return {
@@ -115,7 +115,7 @@ def result_dict(result: TriageResult) -> dict[str, Any]:
             "overdue": list(summary.overdue),
             "earliest_start_by": summary.earliest_start_by.isoformat() if summary.earliest_start_by else None,
         },
-        "items": [system_dict(i) for i in result.items],
+        "items": [system_dict(i) for i in result.items] if with_items else [],
         "arrivals": [
             {"algorithm": a.algorithm, "crqc_year": _number(a.crqc_year, 2),
              "shift_years": _number(a.shift_years, 2), "beyond_horizon": math.isinf(a.crqc_year),
@@ -134,4 +134,16 @@ class JsonFormat(ResultFormat):
     name = "json"
 
     def render(self, result: TriageResult) -> str:
-        return json.dumps(result_dict(result), indent=2, ensure_ascii=False) + "\n"
+        # Encoded one system at a time, so a 100k-use inventory never holds the whole
+        # dict and the encoder's chunk list at once; the text is the same as one dumps().
+        head = json.dumps(result_dict(result, with_items=False), indent=2, ensure_ascii=False)
+        if not result.items:
+            return head + "\n"
+        marker = '\n  "items": [],\n'
+        before, after = head.split(marker, 1)
+        items = ",\n".join(
+            "    " + json.dumps(system_dict(i), indent=2, ensure_ascii=False).replace("\n", "\n    ")
+            for i in result.items
+        )
+        return f'{before}\n  "items": [\n{items}\n  ],\n{after}\n'
+

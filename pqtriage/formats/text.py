@@ -14,6 +14,7 @@ _INVISIBLE = re.compile(
     "[\x00-\x08\x0b-\x1f\x7f-\x9f\u200b-\u200f\u202a-\u202e\u2060-\u2069\ufeff\n\t\r]"
 )
 _MD_SPECIAL = re.compile(r"([\\`*_{}\[\]()#+!|~>])")
+_MD_IN_HTML = re.compile(r"[\\*_\[\]~]")
 _MD_LEADING = re.compile(r"^(\s*)([-=:]|\d+[.)])")
 
 
@@ -52,9 +53,13 @@ def _escape_leading(match: re.Match[str]) -> str:
 
 
 def markdown_code(text: object) -> str:
-    """Text in a monospace span. Markdown is still parsed inside inline HTML, so the content
-    is escaped like any other text (backticks cannot be escaped inside a code span)."""
-    return f"<code>{markdown_text(text)}</code>"
+    """Text inside inline code: backticks cannot be escaped there, so use entities in HTML code."""
+    value = visible(text).replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
+    value = value.replace("|", "&#124;").replace("`", "&#96;")
+    # Markdown inside an inline HTML element is still parsed (CommonMark 0.31, section 6.6):
+    # emphasis, links and escapes must become character references too.
+    value = _MD_IN_HTML.sub(lambda m: f"&#{ord(m.group(0))};", value)
+    return f"<code>{value}</code>"
 
 
 def csv_cell(text: object) -> str:

@@ -10,7 +10,7 @@ import datetime as dt
 import math
 from typing import Protocol
 
-from pqtriage.catalog.spec import Resolution
+from pqtriage.catalog.spec import AlgorithmSpec, Resolution
 from pqtriage.model.arrival import ArrivalModel
 from pqtriage.model.inventory import CRITICALITY_ORDER, EXPOSURE_ORDER, CryptoUse, Inventory, System
 from pqtriage.model.mosca import evaluate_use
@@ -55,6 +55,22 @@ def _resolve(catalog: Resolver, use: CryptoUse, cache: dict[tuple, Resolution]) 
         )
         cache[key] = found
     return found
+
+
+class _RememberedArrival:
+    """An arrival model that computes each algorithm's shift once per run (it is pure)."""
+
+    def __init__(self, model: ArrivalModel):
+        self.model = model
+        self.name = model.name
+        self.shifts: dict[int, tuple[AlgorithmSpec, float]] = {}
+
+    def shift_years(self, spec: AlgorithmSpec) -> float:
+        known = self.shifts.get(id(spec))
+        if known is None or known[0] is not spec:
+            known = (spec, self.model.shift_years(spec))  # keeps spec alive, so its id stays unique
+            self.shifts[id(spec)] = known
+        return known[1]
 
 
 def use_sort_key(item: UseAssessment) -> tuple:
@@ -154,9 +170,10 @@ def triage(
     assessed: list[SystemAssessment] = []
     arrivals: dict[str, ArrivalUsed] = {}
     explain = getattr(arrival, "explain", None)
+    remembered = _RememberedArrival(arrival)
     for system in inventory.systems:
         uses = tuple(
-            evaluate_use(use, system, _resolve(catalog, use, cache), profile, arrival, as_of)
+            evaluate_use(use, system, _resolve(catalog, use, cache), profile, remembered, as_of)
             for use in system.uses
         )
         for use in uses:

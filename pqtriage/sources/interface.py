@@ -3,9 +3,9 @@
 from __future__ import annotations
 
 import hashlib
+import os
+import stat
 from abc import ABC, abstractmethod
-from pathlib import Path
-
 from pqtriage.errors import InventoryError, Place
 from pqtriage.model.inventory import Inventory
 
@@ -25,10 +25,19 @@ class InventorySource(ABC):
         """Build an Inventory; raise InventoryError naming file:line:column on bad input."""
 
 
-def read_input(path: str) -> tuple[bytes, str]:
-    """Read an input file's bytes and SHA-256 (the one place inventories touch the disk)."""
+def read_input(path: str, limit: int | None = None) -> tuple[bytes, str]:
+    """Read an input file's bytes and SHA-256 (the one place inventories touch the disk).
+
+    Only regular files are read (a FIFO or /dev/zero would block or never end), and
+    at most ``limit + 1`` bytes, so an oversized file is refused without loading it.
+    """
     try:
-        data = Path(path).read_bytes()
+        # O_NONBLOCK: opening a FIFO must not wait for a writer; no effect on regular files.
+        with os.fdopen(os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0)), "rb") as stream:
+            if not stat.S_ISREG(os.fstat(stream.fileno()).st_mode):
+                raise InventoryError("is not a regular file (a device, pipe or socket)", place=Place(path),
+                                     hint="give the path of an inventory file")
+            data = stream.read() if limit is None else stream.read(limit + 1)
     except FileNotFoundError as exc:
         raise InventoryError("file not found", place=Place(path), hint="check the path") from exc
     except IsADirectoryError as exc:

@@ -24,7 +24,7 @@ def registered_sources() -> list[InventorySource]:
 
 def load_inventory(path: str) -> Inventory:
     """Read an inventory file in any supported format (recognised by content, not name)."""
-    data, sha256 = read_input(path)
+    data, sha256 = read_input(path, MAX_FILE_BYTES)
     if len(data) > MAX_FILE_BYTES:
         from pqtriage.errors import Place
 

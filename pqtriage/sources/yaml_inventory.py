@@ -24,7 +24,7 @@ from pqtriage.sources.schema import (
     USE_FIELDS,
     FieldSpec,
 )
-from pqtriage.yamlio import Node, load_yaml
+from pqtriage.yamlio import Node, load_yaml, paused_gc
 
 _TYPE_NAMES = {str: "text", int: "a whole number", float: "a number", bool: "true/false",
                list: "a list", dict: "a mapping", type(None): "nothing"}
@@ -262,4 +262,5 @@ class YamlInventorySource(InventorySource):
 
     def parse(self, text: str, path: str, sha256: str | None = None) -> Inventory:
         root = load_yaml(text, path, InventoryError)
-        return _Reader(path).inventory(root, sha256)
+        with paused_gc():
+            return _Reader(path).inventory(root, sha256)

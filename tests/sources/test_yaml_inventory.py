@@ -152,4 +152,4 @@ def test_large_file_is_refused_before_parsing(tmp_path: Path) -> None:
         handle.write(b"# " + b"x" * (65 * 1024 * 1024) + b"\n")
     with pytest.raises(InventoryError) as caught:
         load_inventory(str(path))
-    assert "larger than 64 MiB" in caught.value.diagnostics()
+    assert "larger than 16 MiB" in caught.value.diagnostics()

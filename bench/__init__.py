@@ -1,0 +1,1 @@
+"""Benchmarks of pqtriage: one script per figure; run_all.py writes docs/performance.md."""
