@@ -17,7 +17,7 @@ import typer
 try:  # typer 0.2x vendors its own click; older releases use the click package
     from typer._click import exceptions as _click_errors  # type: ignore[import-not-found]
 except ImportError:  # pragma: no cover - depends on the installed typer
-    from click import exceptions as _click_errors
+    from click import exceptions as _click_errors  # type: ignore[no-redef]
 
 from pqtriage import __version__
 from pqtriage.errors import EXIT_BAD_INPUT, EXIT_FINDINGS, EXIT_INTERNAL, EXIT_OK, PqtriageError

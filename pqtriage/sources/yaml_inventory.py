@@ -205,7 +205,7 @@ class _Reader:
             for dep in system.depends_on:
                 if dep not in seen:
                     close = difflib.get_close_matches(dep, list(seen), n=1, cutoff=0.75)
-                    where = node.value["depends_on"]
+                    where = _child(node, "depends_on")
                     if close:  # almost certainly a typo of a system in this file
                         raise self.fail(where, f"system '{system.id}' depends on unknown id '{dep}'",
                                         f"did you mean '{close[0]}'?")
@@ -216,13 +216,19 @@ class _Reader:
                         " (add it to plan it too; 'check --strict' makes this an error)"
                     )
                 if dep == system.id:
-                    raise self.fail(node.value["depends_on"], f"system '{system.id}' depends on itself",
+                    raise self.fail(_child(node, "depends_on"), f"system '{system.id}' depends on itself",
                                     "remove it from its own depends_on")
         cycle = find_cycle({s.id: s.depends_on for s in systems})
         if cycle:
             first = next(n for n, s in zip(nodes, systems) if s.id == cycle[0])
             raise self.fail(first, "dependency cycle: " + " -> ".join(cycle + [cycle[0]]),
                             "break the cycle: one of them must migrate first")
+
+
+def _child(node: Node, key: str) -> Node:
+    """The value node of a mapping key (the caller knows the key is present)."""
+    assert isinstance(node.value, dict)
+    return node.value[key]
 
 
 def find_cycle(graph: dict[str, tuple[str, ...]]) -> list[str] | None:
