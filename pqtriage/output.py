@@ -7,7 +7,7 @@ import stat
 import tempfile
 from pathlib import Path
 
-from pqtriage.errors import PqtriageError, Place
+from pqtriage.errors import Place, PqtriageError
 
 
 class OutputError(PqtriageError):

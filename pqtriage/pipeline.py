@@ -16,7 +16,6 @@ from pqtriage.model.profile import ThreatProfile
 from pqtriage.model.triage import triage
 from pqtriage.model.verdict import TriageResult
 
-
 AS_OF_RANGE = (dt.date(1970, 1, 1), dt.date(2199, 12, 31))
 """Dates --as-of accepts: beyond them arrival years and start dates leave the calendar."""
 

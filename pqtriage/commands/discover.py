@@ -26,12 +26,12 @@ class GroupBy(str, Enum):
 
 
 def _finish(result: object) -> None:
-    text = getattr(result, "text")
-    if getattr(result, "written") is None:
+    text = result.text
+    if result.written is None:
         sys.stdout.write(text)
-    for line in getattr(result, "summary"):
+    for line in result.summary:
         sys.stderr.write(line.rstrip("\n") + "\n")
-    raise typer.Exit(getattr(result, "exit_code"))
+    raise typer.Exit(result.exit_code)
 
 
 def register(app: typer.Typer) -> None:

@@ -7,8 +7,6 @@ exit code (0 all read, 1 something could not be read or reached). Bad usage rais
 
 from __future__ import annotations
 
-from pqtriage.output import write_atomic  # noqa: F401  (the one writer; re-exported for callers)
-
 import os
 import sys
 from collections.abc import Callable, Iterator
@@ -19,6 +17,7 @@ from typing import Any
 import yaml
 
 from pqtriage.errors import EXIT_FINDINGS, EXIT_OK, InventoryError, Place, UsageError
+from pqtriage.output import write_atomic  # noqa: F401  (the one writer; re-exported for callers)
 from pqtriage.sources.probe.runner import DEFAULT_CONCURRENCY, DEFAULT_TIMEOUT, run_probes
 from pqtriage.sources.probe.targets import parse_target, read_targets_file
 from pqtriage.sources.scan.emit import (

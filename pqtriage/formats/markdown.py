@@ -10,7 +10,13 @@ from pqtriage.formats.interface import ResultFormat
 from pqtriage.formats.notes import CAUTIONS, SOURCES, assumptions, fmt_year
 from pqtriage.formats.table import VERDICT_LABEL, short_replacement
 from pqtriage.formats.text import markdown_code, markdown_text
-from pqtriage.model.verdict import VERDICT_MEANING, SystemAssessment, TriageResult, UseAssessment, Verdict
+from pqtriage.model.verdict import (
+    VERDICT_MEANING,
+    SystemAssessment,
+    TriageResult,
+    UseAssessment,
+    Verdict,
+)
 
 md = markdown_text
 

@@ -12,9 +12,11 @@ import datetime
 from dataclasses import dataclass
 from typing import Literal
 
-VendorReadiness = Literal["available", "announced", "unknown"]
 # Defined once with the inventory format; re-exported here for the planner.
-from pqtriage.sources.schema import POLICY_CATEGORIES, VENDOR_READINESS  # noqa: E402
+from pqtriage.sources.schema import POLICY_CATEGORIES as POLICY_CATEGORIES
+from pqtriage.sources.schema import VENDOR_READINESS as VENDOR_READINESS
+
+VendorReadiness = Literal["available", "announced", "unknown"]
 
 HIGH_PRIORITY_CRITICALITIES: tuple[str, ...] = ("critical", "high")
 """Criticalities that make a system high-priority (or high-risk) for the policies that

@@ -6,6 +6,7 @@ import hashlib
 import os
 import stat
 from abc import ABC, abstractmethod
+
 from pqtriage.errors import InventoryError, Place
 from pqtriage.model.inventory import Inventory
 

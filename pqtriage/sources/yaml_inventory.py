@@ -196,12 +196,12 @@ class _Reader:
 
     def check_ids(self, nodes: list[Node], systems: list[System]) -> None:
         seen: dict[str, int] = {}
-        for node, system in zip(nodes, systems):
+        for node, system in zip(nodes, systems, strict=True):
             if system.id in seen:
                 raise self.fail(node, f"duplicate system id '{system.id}' (first at line {seen[system.id]})",
                                 "give each system its own id")
             seen[system.id] = node.line
-        for node, system in zip(nodes, systems):
+        for node, system in zip(nodes, systems, strict=True):
             for dep in system.depends_on:
                 if dep not in seen:
                     close = difflib.get_close_matches(dep, list(seen), n=1, cutoff=0.75)
@@ -220,7 +220,7 @@ class _Reader:
                                     "remove it from its own depends_on")
         cycle = find_cycle({s.id: s.depends_on for s in systems})
         if cycle:
-            first = next(n for n, s in zip(nodes, systems) if s.id == cycle[0])
+            first = next(n for n, s in zip(nodes, systems, strict=True) if s.id == cycle[0])
             raise self.fail(first, "dependency cycle: " + " -> ".join(cycle + [cycle[0]]),
                             "break the cycle: one of them must migrate first")
 

@@ -8,7 +8,6 @@ inventory produces no HTML of its own (no script, no link, no emphasis).
 from __future__ import annotations
 
 from html.parser import HTMLParser
-from pathlib import Path
 
 import pytest
 
