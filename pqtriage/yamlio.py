@@ -212,7 +212,8 @@ class _Builder:
         try:
             # Called directly: construct_object would keep every node in a cache for the whole file.
             value = construct(self.constructor, node)
-        except (yaml.YAMLError, ValueError, OverflowError) as exc:
+            # PyYAML's int constructor raises IndexError on an empty "!!int" value (fuzz regression).
+        except (yaml.YAMLError, ValueError, OverflowError, IndexError, TypeError) as exc:
             raise self.error(f"cannot read value {event.value[:40]!r}", place=self.place(event)) from exc
         if isinstance(value, (bytes, bytearray)) or not isinstance(value, (str, int, float, bool, type(None))):
             value = str(event.value)  # dates, binary, timestamps: keep the text as written
