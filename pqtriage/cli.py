@@ -100,15 +100,19 @@ def _fail_code(result: Any, fail_on: Optional[VerdictChoice]) -> int:
     return EXIT_FINDINGS if worst >= threshold else EXIT_OK
 
 
+def _print_version(value: bool) -> None:
+    if value:
+        typer.echo(f"pqtriage {__version__}")
+        raise typer.Exit(EXIT_OK)
+
+
 @app.callback()
 def _root(
     debug: bool = typer.Option(False, "--debug", help="Show tracebacks of errors."),
-    version: bool = typer.Option(False, "--version", help="Print the version and exit."),
+    version: bool = typer.Option(False, "--version", is_eager=True, callback=_print_version,
+                                 help="Print the version and exit."),
 ) -> None:
     _STATE["debug"] = debug
-    if version:
-        typer.echo(f"pqtriage {__version__}")
-        raise typer.Exit(EXIT_OK)
 
 
 PROFILE_HELP = "Threat profile: a shipped name (survey-2025-upper, survey-2025-lower) or a YAML file."
