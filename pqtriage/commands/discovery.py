@@ -21,12 +21,15 @@ from pqtriage.output import write_atomic  # noqa: F401  (the one writer; re-expo
 from pqtriage.sources.probe.runner import DEFAULT_CONCURRENCY, DEFAULT_TIMEOUT, run_probes
 from pqtriage.sources.probe.targets import parse_target, read_targets_file
 from pqtriage.sources.scan.emit import (
+    ASSUMED_SYSTEM_FIELDS,
     DEFAULT_EXPOSURE,
     DEFAULT_MIGRATION_YEARS,
     DEFAULT_ORGANIZATION,
     DEFAULT_SHELF_LIFE_YEARS,
     inventory_dict,
     render,
+    slugify,
+    unique_id,
 )
 from pqtriage.sources.scan.findings import Finding, FindingKind, ScanProblem
 from pqtriage.sources.scan.grouping import GroupBy, group_findings
@@ -129,11 +132,29 @@ def _finish(
     summary: list[str],
     failed: bool,
     system_extras: dict[str, dict[str, Any]] | None = None,
+    unreached: list[tuple[str, str]] | None = None,
 ) -> CommandResult:
     groups = group_findings(findings, group_by)
     document = inventory_dict(
         groups, organization, shelf_life_years, migration_years, system_extras
     )
+    if unreached and merge is None:
+        # A target that could not be probed is not dropped: it becomes a system with no
+        # uses, which triage reports as unassessed in every output. (With --merge the
+        # existing entry for it is left untouched instead.)
+        taken = {system["id"] for system in document["systems"]}
+        for target, line in unreached:
+            document["systems"].append({
+                "id": unique_id(slugify(target), taken),
+                "name": target,
+                "shelf_life_years": shelf_life_years,
+                "migration_years": migration_years,
+                "assumed": list(ASSUMED_SYSTEM_FIELDS),
+                "source": target,
+                "exposure": DEFAULT_EXPOSURE,
+                "notes": f"probe failed, not assessed: {line}",
+                "uses": [],
+            })
     summary.append(f"{len(findings)} uses in {len(groups)} systems (grouped by {group_by.value})")
     if groups:
         summary.append(_assumed_line(len(groups), shelf_life_years, migration_years))
@@ -243,11 +264,13 @@ def probe_command(
     problems: list[ScanProblem] = []
     extras: dict[str, dict[str, Any]] = {}
     summary = [f"probe: {len(parsed)} targets"]
+    unreached: list[tuple[str, str]] = []
     for outcome in outcomes:
         problem = outcome.problem()
         if problem is not None:
             problems.append(problem)
             summary.append(problem.line())
+            unreached.append((outcome.target, problem.line()))
             continue
         findings.extend(outcome.findings)
         extras[outcome.target] = {"protocol": outcome.protocol, "notes": outcome.summary}
@@ -255,7 +278,7 @@ def probe_command(
     return _finish(
         findings, GroupBy.FILE, organization, shelf_life_years, migration_years, merge,
         target_scope([t.text for t in parsed if t.text in extras]), output, output_format,
-        summary, bool(problems), extras,
+        summary, bool(problems), extras, unreached,
     )  # fmt: skip
 
 

@@ -65,7 +65,10 @@ def test_closed_port_and_wrong_protocol_fail_fast_and_clearly(tmp_path: Path) ->
     )
     other_line = next(line for line in result.summary if line.startswith(f"127.0.0.1:{other}:"))
     assert "not TLS" in other_line and "\n" not in other_line
-    assert yaml.safe_load(result.text)["systems"] == []
+    # Failed targets are not dropped: each is a system with no uses (unassessed in triage).
+    systems = yaml.safe_load(result.text)["systems"]
+    assert sorted(s["source"] for s in systems) == sorted([f"127.0.0.1:{closed}", f"127.0.0.1:{other}"])
+    assert all(s["uses"] == [] and s["notes"].startswith("probe failed, not assessed:") for s in systems)
 
 
 def test_silent_server_times_out_within_the_bound() -> None:
