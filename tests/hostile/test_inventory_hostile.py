@@ -227,41 +227,8 @@ def test_injection_survives_nowhere_raw(tmp_path: Path) -> None:
     assert rows > 4
 
 
-# Discovery inputs (PEM, DER, PKCS#12, TLS and SSH peers) join this table when their modules are merged.
-# (case name, module that must exist, file bytes or peer behaviour, expected words)
-DISCOVERY_CASES: list[tuple[str, str, str]] = [
-    ("pem-corrupt", "pqtriage.sources.scan", "PEM block with base64 garbage"),
-    ("pem-truncated", "pqtriage.sources.scan", "PEM block cut in the middle"),
-    ("pem-oversized", "pqtriage.sources.scan", "PEM file over the size limit"),
-    ("der-corrupt", "pqtriage.sources.scan", "DER with a wrong length byte"),
-    ("der-truncated", "pqtriage.sources.scan", "DER cut in the middle"),
-    ("pkcs12-corrupt", "pqtriage.sources.scan", "PKCS#12 with flipped bytes"),
-    ("pkcs12-truncated", "pqtriage.sources.scan", "PKCS#12 cut in the middle"),
-    ("authorized-keys-garbage", "pqtriage.sources.scan", "authorized_keys line of base64 garbage"),
-    ("tls-peer-garbage", "pqtriage.sources.probe", "TLS peer answering with random bytes"),
-    ("tls-peer-stall", "pqtriage.sources.probe", "TLS peer that accepts and never answers"),
-    ("tls-peer-reset", "pqtriage.sources.probe", "TLS peer resetting mid-handshake"),
-    ("ssh-endless-banner", "pqtriage.sources.probe", "SSH peer sending an endless banner"),
-    ("ssh-oversized-packet", "pqtriage.sources.probe", "SSH peer announcing a 4 GiB packet"),
-]
-
-
-def _merged(module: str) -> bool:
-    import importlib.util
-
-    try:
-        return importlib.util.find_spec(module) is not None
-    except ModuleNotFoundError:
-        return False
-
-
-@pytest.mark.parametrize(
-    "name, module, what",
-    [pytest.param(*case, marks=pytest.mark.skipif(not _merged(case[1]), reason="discovery not merged yet"))
-     for case in DISCOVERY_CASES],
-)
-def test_discovery_hostile_inputs(name: str, module: str, what: str) -> None:
-    pytest.fail(f"{name} ({what}): write this case now that {module} is merged")
+# Discovery inputs (PEM, DER, PKCS#12, authorized_keys, TLS and SSH peers): DISCOVERY_CASES in
+# tests/hostile/test_discovery_hostile.py.
 
 
 @pytest.mark.parametrize("args", [("triage",), ("triage", "inventories/demo.yaml", "--format", "nope"),

@@ -25,6 +25,12 @@ from pqtriage.sources.scan.findings import (
 _PKCS7_DATA_OID = bytes.fromhex("06092a864886f70d010701")
 #: DER of INTEGER 3: PFX version v3, RFC 7292 section 4.
 _VERSION_3 = bytes.fromhex("020103")
+#: DER of the OIDs that mark an encrypted part: 1.2.840.113549.1.7.6 (PKCS #7 encryptedData,
+#: RFC 7292 section 4.1) and 1.2.840.113549.1.12.10.1.2 (pkcs8ShroudedKeyBag, section 4.2.2).
+_ENCRYPTION_MARKERS = (
+    bytes.fromhex("06092a864886f70d010706"),
+    bytes.fromhex("060b2a864886f70d010c0a0102"),
+)
 
 
 def looks_like_pkcs12(data: bytes) -> bool:
@@ -60,6 +66,11 @@ def parse_pkcs12(data: bytes, path: str, password: bytes | None) -> ParseOutcome
                 findings=(_encrypted(path, "encrypted; the password did not open it"),),
                 recognised=True,
             )
+    if bundle is None and not any(marker in data for marker in _ENCRYPTION_MARKERS):
+        # Nothing in it is encrypted, so no password can help: the bundle is damaged.
+        reason = "PKCS#12 does not parse (nothing in it is encrypted, so no password would help)"
+        problem = ScanProblem(path, ProblemKind.CORRUPT, reason)
+        return ParseOutcome(problems=(problem,), recognised=True)
     if bundle is None:
         return ParseOutcome(
             findings=(_encrypted(path, "encrypted; type unknown (give --password-file)"),),
