@@ -70,7 +70,10 @@ def parse_der_object(der: bytes, source: SourceRef, password: bytes | None) -> l
     except _PARSE_ERRORS:
         certificates = None
     if certificates is not None:
-        return pkcs7_findings(certificates, source)
+        try:
+            return pkcs7_findings(certificates, source)
+        except _PARSE_ERRORS:
+            return None  # a certificate's name or extension does not parse
     try:
         return describe_key(serialization.load_der_public_key(der), source, private=False)
     except _PARSE_ERRORS:

@@ -120,9 +120,10 @@ def _block(
         try:
             # TRUSTED CERTIFICATE (OpenSSL) appends trust settings after the certificate.
             cert = x509.load_der_x509_certificate(der[:total] if total else der)
+            # Names and extensions are parsed on first use: they may fail here too.
+            return describe_certificate(cert, source)
         except _PARSE_ERRORS:
             raise corrupt from None
-        return describe_certificate(cert, source)
     if label in {"CERTIFICATE REQUEST", "NEW CERTIFICATE REQUEST"}:
         try:
             return describe_csr(x509.load_der_x509_csr(der), source)

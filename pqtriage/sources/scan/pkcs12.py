@@ -76,6 +76,19 @@ def parse_pkcs12(data: bytes, path: str, password: bytes | None) -> ParseOutcome
             findings=(_encrypted(path, "encrypted; type unknown (give --password-file)"),),
             recognised=True,
         )
+    try:
+        findings = _bundle_findings(bundle, path, note)
+    except (ValueError, TypeError, UnsupportedAlgorithm):
+        reason = "PKCS#12 holds a certificate whose names or dates do not parse"
+        return ParseOutcome(
+            problems=(ScanProblem(path, ProblemKind.CORRUPT, reason),), recognised=True
+        )
+    return ParseOutcome(findings=tuple(findings), recognised=True)
+
+
+def _bundle_findings(
+    bundle: pkcs12.PKCS12KeyAndCertificates, path: str, note: tuple[str, ...]
+) -> list[Finding]:
     findings: list[Finding] = []
     if bundle.key is not None:
         findings.extend(describe_key(bundle.key, SourceRef(path, detail="key"), True, note))
@@ -87,7 +100,7 @@ def parse_pkcs12(data: bytes, path: str, password: bytes | None) -> ParseOutcome
         findings.extend(
             describe_certificate(extra.certificate, SourceRef(path, detail=f"ca{index}"))
         )
-    return ParseOutcome(findings=tuple(findings), recognised=True)
+    return findings
 
 
 def _encrypted(path: str, note: str) -> Finding:
