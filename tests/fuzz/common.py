@@ -32,8 +32,3 @@ def save_crash(target: str, data: bytes, suffix: str) -> None:
         PARSER_REGRESSIONS.mkdir(parents=True, exist_ok=True)
         name = f"{target}-crash-{hashlib.sha256(data).hexdigest()[:16]}{suffix}"
         (PARSER_REGRESSIONS / name).write_bytes(data)
-
-
-def regression_files(target: str) -> list[Path]:
-    """Saved inputs of one parser target."""
-    return sorted(PARSER_REGRESSIONS.glob(f"{target}-*"))

@@ -13,6 +13,7 @@ import select
 import socket
 import time
 
+from cryptography import x509
 from OpenSSL import SSL
 
 from pqtriage.model.inventory import Purpose, SourceRef
@@ -142,7 +143,7 @@ def _describe(target: Target, connection: SSL.Connection) -> ProbeOutcome:
             described = describe_certificate(
                 cert, SourceRef(target.text, detail=f"chain{index}"), protocol=protocol
             )
-        except ValueError:  # names or dates the library cannot parse
+        except (ValueError, x509.InvalidVersion):  # names or dates the library cannot parse
             unreadable.append(f"chain{index}")
             continue
         # The probe target is the host these certificates serve.

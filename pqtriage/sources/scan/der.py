@@ -28,7 +28,9 @@ MATERIAL_SUFFIXES = (
     ".pk8", ".csr", ".req", ".p12", ".pfx", ".jwk", ".jwks",
 )  # fmt: skip
 
-_PARSE_ERRORS = (ValueError, TypeError, UnsupportedAlgorithm)
+# x509.InvalidVersion is not a ValueError: a certificate version other than v1 or v3 raises it
+# (found by fuzzing).
+_PARSE_ERRORS = (ValueError, TypeError, UnsupportedAlgorithm, x509.InvalidVersion)
 
 
 def der_total_length(data: bytes) -> int | None:

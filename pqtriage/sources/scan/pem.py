@@ -39,7 +39,9 @@ from pqtriage.sources.scan.findings import (
 from pqtriage.sources.scan.sshwire import WireError, parse_openssh_private_key
 
 _BEGIN = re.compile(rb"^-----BEGIN ([A-Z0-9 #]{1,64})-----[ \t]*\r?$", re.MULTILINE)
-_PARSE_ERRORS = (ValueError, TypeError, UnsupportedAlgorithm)
+# x509.InvalidVersion is not a ValueError: a certificate version other than v1 or v3 raises it
+# (found by fuzzing).
+_PARSE_ERRORS = (ValueError, TypeError, UnsupportedAlgorithm, x509.InvalidVersion)
 _LEGACY_KEYS = {"RSA PRIVATE KEY": "RSA", "EC PRIVATE KEY": "ECDSA", "DSA PRIVATE KEY": "DSA"}
 _IGNORED = {"X509 CRL", "EC PARAMETERS", "PGP SIGNATURE", "SIGNATURE"}
 

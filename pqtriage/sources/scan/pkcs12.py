@@ -7,6 +7,7 @@ never reach a finding or a message.
 
 from __future__ import annotations
 
+from cryptography import x509
 from cryptography.exceptions import UnsupportedAlgorithm
 from cryptography.hazmat.primitives.serialization import pkcs12
 
@@ -25,6 +26,7 @@ from pqtriage.sources.scan.findings import (
 _PKCS7_DATA_OID = bytes.fromhex("06092a864886f70d010701")
 #: DER of INTEGER 3: PFX version v3, RFC 7292 section 4.
 _VERSION_3 = bytes.fromhex("020103")
+_PARSE_ERRORS = (ValueError, TypeError, UnsupportedAlgorithm, x509.InvalidVersion)
 #: DER of the OIDs that mark an encrypted part: 1.2.840.113549.1.7.6 (PKCS #7 encryptedData,
 #: RFC 7292 section 4.1) and 1.2.840.113549.1.12.10.1.2 (pkcs8ShroudedKeyBag, section 4.2.2).
 _ENCRYPTION_MARKERS = (
@@ -54,14 +56,14 @@ def parse_pkcs12(data: bytes, path: str, password: bytes | None) -> ParseOutcome
         return ParseOutcome(problems=(problem,), recognised=True)
     try:
         bundle = pkcs12.load_pkcs12(data, None)
-    except (ValueError, TypeError, UnsupportedAlgorithm):
+    except _PARSE_ERRORS:
         bundle = None
     note: tuple[str, ...] = ()
     if bundle is None and password is not None:
         try:
             bundle = pkcs12.load_pkcs12(data, password)
             note = ("encrypted; opened with the password",)
-        except (ValueError, TypeError, UnsupportedAlgorithm):
+        except _PARSE_ERRORS:
             return ParseOutcome(
                 findings=(_encrypted(path, "encrypted; the password did not open it"),),
                 recognised=True,
@@ -78,7 +80,7 @@ def parse_pkcs12(data: bytes, path: str, password: bytes | None) -> ParseOutcome
         )
     try:
         findings = _bundle_findings(bundle, path, note)
-    except (ValueError, TypeError, UnsupportedAlgorithm):
+    except _PARSE_ERRORS:
         reason = "PKCS#12 holds a certificate whose names or dates do not parse"
         return ParseOutcome(
             problems=(ScanProblem(path, ProblemKind.CORRUPT, reason),), recognised=True
