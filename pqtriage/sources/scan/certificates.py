@@ -124,8 +124,8 @@ def _name(name: x509.Name) -> str:
     return name.rfc4514_string()
 
 
-def _common_name(cert: x509.Certificate | x509.CertificateSigningRequest) -> str | None:
-    values = cert.subject.get_attributes_for_oid(x509.NameOID.COMMON_NAME)
+def _common_name(subject: x509.Name) -> str | None:
+    values = subject.get_attributes_for_oid(x509.NameOID.COMMON_NAME)
     if values:
         value = values[0].value
         return value if isinstance(value, str) else value.decode("utf-8", "replace")
@@ -238,14 +238,17 @@ def describe_certificate(
     Raises ValueError when the subject, issuer or validity does not parse (the library parses
     them on first use, not at load); extensions that do not parse are noted and ignored.
     """
+    # The library builds a new Name object on every access: read each once.
+    subject, issuer = cert.subject, cert.issuer
+    subject_text = _name(subject)
     values, extension_note = _extension_values(cert)
     usage, ca, signing_only_eku = _key_usage(values)
     facts = _certificate_key(cert)
     dns = _dns_names(values)
     common = {
-        "subject": _name(cert.subject),
-        "subject_name": _common_name(cert) or (dns[0] if dns else None) or _name(cert.subject),
-        "issuer": _name(cert.issuer),
+        "subject": subject_text,
+        "subject_name": _common_name(subject) or (dns[0] if dns else None) or subject_text,
+        "issuer": _name(issuer),
         "not_before": cert.not_valid_before_utc.date().isoformat(),
         "not_after": cert.not_valid_after_utc.date().isoformat(),
         "ca": ca,
@@ -265,7 +268,7 @@ def describe_certificate(
         **common,  # type: ignore[arg-type]
     )
     signature, notes = signature_facts(cert)
-    self_signed = cert.issuer == cert.subject
+    self_signed = issuer == subject
     if self_signed and signature.algorithm == facts.algorithm and facts.curve:
         signature = KeyFacts(signature.algorithm, facts.key_size, facts.curve, facts.parameter_set)
     sig_source = SourceRef(source.file, source.line, source.column, _suffix(source, "signature"))
@@ -300,7 +303,7 @@ def describe_csr(csr: x509.CertificateSigningRequest, source: SourceRef) -> list
             curve=facts.curve,
             parameter_set=facts.parameter_set,
             subject=_name(csr.subject),
-            subject_name=_common_name(csr),
+            subject_name=_common_name(csr.subject),
             notes=("certificate signing request",),
         )
     ]
