@@ -17,14 +17,17 @@ from functools import lru_cache
 from pathlib import Path
 
 import pytest
-from hypothesis import HealthCheck, given, settings
+from hypothesis import given
 from hypothesis import strategies as st
 from rich.console import Console
 
 from pqtriage.catalog import load_catalog
 from pqtriage.errors import PqtriageError
+from pqtriage.formats.cbom_format import CbomFormat
+from pqtriage.formats.csv_format import CsvFormat
 from pqtriage.formats.json_format import JsonFormat
 from pqtriage.formats.markdown import render_report
+from pqtriage.formats.sarif_format import SarifFormat
 from pqtriage.formats.table import terminal_view
 from pqtriage.model.inventory import Inventory
 from pqtriage.model.triage import triage
@@ -32,20 +35,12 @@ from pqtriage.pipeline import arrival_model_for
 from pqtriage.sources.loading import load_inventory
 from pqtriage.sources.profile_file import load_profile
 from pqtriage.sources.yaml_writer import inventory_to_yaml
+from tests.fuzz.common import REGRESSIONS, fuzz
 from tests.hostile.generate_corpus import VALID, injection_inventory
 from tests.properties.strategies import inventories
 
 pytestmark = pytest.mark.fuzz
 
-REGRESSIONS = Path(__file__).parent / "regressions"
-
-
-def fuzz(examples: int) -> settings:
-    """Bounded fuzzing: a fixed number of examples, no per-example deadline (CI machines vary)."""
-    scale = float(os.environ.get("PQTRIAGE_FUZZ_SCALE", "1"))  # longer local runs: PQTRIAGE_FUZZ_SCALE=20
-    return settings(max_examples=int(examples * scale), deadline=None,
-                    suppress_health_check=[HealthCheck.too_slow, HealthCheck.data_too_large,
-                                           HealthCheck.function_scoped_fixture])
 
 
 SEEDS = [VALID, injection_inventory(), Path("inventories/demo.yaml").read_text(encoding="utf-8")]
@@ -83,7 +78,8 @@ def render_everything(inventory: Inventory) -> None:
     """Triage and render in every format; any exception is a bug."""
     catalog, profile, arrival = _triage_setup()
     result = triage(inventory, catalog, profile, arrival, dt.date(2026, 12, 1))
-    JsonFormat().render(result)
+    for output in (JsonFormat(), CsvFormat(), SarifFormat(), CbomFormat()):
+        output.render(result)
     render_report(result)
     Console(file=io.StringIO(), width=100, no_color=True).print(terminal_view(result))
 
@@ -139,7 +135,7 @@ def test_generated_inventories_triage_and_render(folder: Path, inventory: Invent
 
 
 def _regression_files() -> list[Path]:
-    return sorted(p for p in REGRESSIONS.glob("*") if p.name != "README.md")
+    return sorted(p for p in REGRESSIONS.glob("*") if p.is_file() and p.name != "README.md")
 
 
 @pytest.mark.parametrize("path", _regression_files(), ids=lambda p: p.name)

@@ -54,28 +54,5 @@ def test_csv_cell_cannot_start_a_formula(text: str) -> None:
     assert not cell or cell[0] not in "=+-@\t\r"
 
 
-# Parsers of the discovery and interop branches join here when merged (module, what to fuzz).
-PARSERS = [
-    ("pqtriage.sources.cbom", "CycloneDX CBOM JSON"),
-    ("pqtriage.sources.scan", "PEM, DER and PKCS#12 files"),
-    ("pqtriage.sources.scan", "authorized_keys and known_hosts lines"),
-    ("pqtriage.sources.probe", "SSH KEXINIT packets"),
-    ("pqtriage.sources.probe", "TLS records (ServerHello)"),
-]
-
-
-def _merged(module: str) -> bool:
-    import importlib.util
-
-    try:
-        return importlib.util.find_spec(module) is not None
-    except ModuleNotFoundError:
-        return False
-
-
-@pytest.mark.parametrize(
-    "module, what",
-    [pytest.param(*p, marks=pytest.mark.skipif(not _merged(p[0]), reason="not merged yet")) for p in PARSERS],
-)
-def test_parser_fuzzing_is_written(module: str, what: str) -> None:
-    pytest.fail(f"add a hypothesis fuzz test of {what} ({module}) to tests/fuzz/")
+# The parsers of discovery and interop are fuzzed in test_fuzz_discovery.py (PEM, DER, PKCS#12,
+# OpenSSH lines and blobs, SSH KEXINIT) and test_fuzz_cbom.py (CycloneDX CBOM).

@@ -28,7 +28,27 @@ class Outcome:
     seconds: float
     """Wall-clock time."""
     peak_rss: int
-    """Peak resident memory of the child in bytes."""
+    """Peak resident memory of the child in bytes (its own, not inherited: see _CODE)."""
+
+
+_CODE = """\
+import os, sys
+from pqtriage.cli import main
+try:
+    code = main(sys.argv[1:])
+finally:
+    # VmHWM is the peak RSS of this process's own memory map, which exec() starts afresh.
+    # wait4's ru_maxrss is not: Linux carries the parent's peak across fork + exec, so a
+    # child of a large pytest process would report pytest's size (proc(5), getrusage(2)).
+    try:
+        with open('/proc/self/status', encoding='ascii') as status:
+            peak = next(line.split()[1] for line in status if line.startswith('VmHWM:'))
+        with open(os.environ['PQTRIAGE_TEST_PEAK_FILE'], 'w', encoding='ascii') as out:
+            out.write(peak)
+    except (OSError, KeyError, StopIteration):
+        pass
+sys.exit(code)
+"""
 
 
 def run_cli(*args: str, cwd: Path | None = None) -> Outcome:
@@ -37,10 +57,11 @@ def run_cli(*args: str, cwd: Path | None = None) -> Outcome:
     env["PYTHONPATH"] = str(ROOT)
     env.update({"NO_COLOR": "1", "TERM": "dumb", "COLUMNS": "100"})
     env.pop("FORCE_COLOR", None)
-    code = "import sys; from pqtriage.cli import main; sys.exit(main(sys.argv[1:]))"
-    with tempfile.TemporaryFile() as out, tempfile.TemporaryFile() as err:
+    with tempfile.TemporaryFile() as out, tempfile.TemporaryFile() as err, \
+            tempfile.NamedTemporaryFile("r", encoding="ascii") as peak_file:
+        env["PQTRIAGE_TEST_PEAK_FILE"] = peak_file.name
         started = time.perf_counter()
-        child = subprocess.Popen([sys.executable, "-c", code, *args], cwd=cwd or ROOT, env=env,
+        child = subprocess.Popen([sys.executable, "-c", _CODE, *args], cwd=cwd or ROOT, env=env,
                                  stdin=subprocess.DEVNULL, stdout=out, stderr=err)
         while True:
             pid, status, usage = os.wait4(child.pid, os.WNOHANG)
@@ -55,5 +76,7 @@ def run_cli(*args: str, cwd: Path | None = None) -> Outcome:
         child.returncode = os.waitstatus_to_exitcode(status)
         out.seek(0)
         err.seek(0)
+        peak_kib = peak_file.read().strip()
+        peak = int(peak_kib) * 1024 if peak_kib.isdigit() else usage.ru_maxrss * 1024
         return Outcome(child.returncode, out.read().decode("utf-8", "replace"),
-                       err.read().decode("utf-8", "replace"), seconds, usage.ru_maxrss * 1024)
+                       err.read().decode("utf-8", "replace"), seconds, peak)

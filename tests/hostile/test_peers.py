@@ -1,7 +1,7 @@
 """The hostile peers do what they claim, checked with Python's own clients (ssl, socket).
 
-The probe's hostile-input cases (tests/hostile/test_inventory_hostile.py,
-DISCOVERY_CASES) use these peers once discovery is merged.
+The probe's hostile-input cases (DISCOVERY_CASES in tests/hostile/test_discovery_hostile.py)
+run ``pqtriage probe`` against these peers.
 """
 
 from __future__ import annotations

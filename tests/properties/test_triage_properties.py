@@ -1,6 +1,8 @@
 """Properties of triage and its outputs, over generated inventories.
 
-- every input system (and use) appears exactly once in every output format;
+- every input system (and use) appears exactly once in every output format (JSON, Markdown,
+  terminal table, CSV, CBOM; SARIF lists exactly the classically-broken, exposed and
+  unassessed uses);
 - the ranking is a deterministic total order (input order does not matter);
 - raising x or y never lowers the exposure probability (Mosca's inequality, x + y > z:
   "Cybersecurity in an era with quantum computers: will we be ready?", IACR ePrint 2015/1075);
@@ -9,6 +11,7 @@
 
 from __future__ import annotations
 
+import csv
 import datetime as dt
 import io
 import itertools
@@ -23,13 +26,16 @@ from hypothesis import strategies as st
 from rich.console import Console
 
 from pqtriage.catalog import load_catalog
+from pqtriage.formats.cbom_format import CbomFormat
+from pqtriage.formats.csv_format import CsvFormat
 from pqtriage.formats.json_format import JsonFormat
 from pqtriage.formats.markdown import render_report
+from pqtriage.formats.sarif_format import SarifFormat
 from pqtriage.formats.table import terminal_view
 from pqtriage.model.inventory import Criticality, CryptoUse, Exposure, Inventory, Purpose, System
 from pqtriage.model.mosca import evaluate_use
 from pqtriage.model.triage import rank_key, triage
-from pqtriage.model.verdict import TriageResult
+from pqtriage.model.verdict import TriageResult, Verdict
 from pqtriage.pipeline import arrival_model_for
 from pqtriage.sources.profile_file import load_profile
 from tests.properties.strategies import inventories
@@ -66,11 +72,24 @@ def ids_in_table(result: TriageResult) -> list[str]:
     return re.findall(r"^\s*\d+\s+(sys\d{3}q)\*?\s", buffer.getvalue(), flags=re.MULTILINE)
 
 
-# Append CSV, SARIF and CBOM here when those formats are merged: (name, ids found in the output).
+def ids_in_csv(result: TriageResult) -> list[str]:
+    # Read back with Python's csv module (RFC 4180): one row per system.
+    return [row["system_id"] for row in csv.DictReader(io.StringIO(CsvFormat().render(result), newline=""))]
+
+
+def ids_in_cbom(result: TriageResult) -> list[str]:
+    # CycloneDX 1.6: each system is an "application" component whose bom-ref is its id.
+    components = json.loads(CbomFormat().render(result))["components"]
+    return [c["bom-ref"] for c in components if c["type"] == "application"]
+
+
+# SARIF reports uses, not systems: see test_sarif_reports_every_urgent_use_exactly_once.
 OUTPUTS: list[tuple[str, Callable[[TriageResult], list[str]]]] = [
     ("json", ids_in_json),
     ("markdown", ids_in_markdown),
     ("table", ids_in_table),
+    ("csv", ids_in_csv),
+    ("cbom", ids_in_cbom),
 ]
 
 
@@ -96,6 +115,40 @@ def test_every_use_appears_exactly_once_in_json_and_markdown(inventory: Inventor
     rows = [line for line in text.splitlines() if line.startswith("| ")
             and len(re.findall(r"(?<!\\)\|", line)) == 13 and not line.startswith("| Algorithm |")]
     assert len(rows) == sum(len(s.uses) for s in inventory.systems)
+
+
+@settings(max_examples=60, deadline=None)
+@given(inventories(max_systems=6))
+def test_every_use_appears_exactly_once_in_cbom(inventory: Inventory) -> None:
+    # One cryptographic-asset component "<system>#use-<n>" per use, in input order, carrying the
+    # inventory's algorithm text as the pqtriage:algorithm property (docs/interop.md).
+    result = run(inventory)
+    components = json.loads(CbomFormat().render(result))["components"]
+    found: dict[str, list[str]] = {}
+    for component in components:
+        ref = component["bom-ref"]
+        system, _, use = ref.rpartition("#use-")
+        if component["type"] == "cryptographic-asset" and system and use.isdigit():
+            props = {p["name"]: p["value"] for p in component.get("properties", [])}
+            assert props["pqtriage:system"] == system
+            found.setdefault(system, []).append(props["pqtriage:algorithm"])
+    expected = {s.id: [u.algorithm for u in s.uses] for s in inventory.systems if s.uses}
+    assert found == expected
+
+
+@settings(max_examples=60, deadline=None)
+@given(inventories(text_ids=False, max_systems=8))
+def test_sarif_reports_every_urgent_use_exactly_once(inventory: Inventory) -> None:
+    # SARIF: one result per classically-broken, exposed or unassessed use, and no other.
+    result = run(inventory)
+    urgent = {Verdict.CLASSICALLY_BROKEN, Verdict.EXPOSED, Verdict.UNASSESSED}
+    expected = Counter((item.system.id, use.use.purpose.value, use.verdict.value)
+                       for item in result.items for use in item.uses if use.verdict in urgent)
+    results = json.loads(SarifFormat().render(result))["runs"][0]["results"]
+    found = Counter((r["properties"]["system"], r["properties"]["purpose"], r["ruleId"]) for r in results)
+    assert found == expected
+    uses = sum(len(s.uses) for s in inventory.systems)
+    assert len(results) == uses - sum(use.verdict not in urgent for item in result.items for use in item.uses)
 
 
 @settings(max_examples=60, deadline=None)

@@ -13,6 +13,7 @@ import select
 import socket
 import time
 
+from cryptography import x509
 from OpenSSL import SSL
 
 from pqtriage.model.inventory import Purpose, SourceRef
@@ -136,13 +137,20 @@ def _describe(target: Target, connection: SSL.Connection) -> ProbeOutcome:
         )
     )
     chain = connection.get_peer_cert_chain(as_cryptography=True) or []
+    unreadable = []
     for index, cert in enumerate(chain):
-        for finding in describe_certificate(
-            cert, SourceRef(target.text, detail=f"chain{index}"), protocol=protocol
-        ):
-            # The probe target is the host these certificates serve.
-            findings.append(_at_target(finding, target.text))
+        try:
+            described = describe_certificate(
+                cert, SourceRef(target.text, detail=f"chain{index}"), protocol=protocol
+            )
+        except (ValueError, x509.InvalidVersion):  # names or dates the library cannot parse
+            unreadable.append(f"chain{index}")
+            continue
+        # The probe target is the host these certificates serve.
+        findings.extend(_at_target(finding, target.text) for finding in described)
     summary = f"{target.text}: {protocol}, {cipher}, group {group or 'none'}: {verdict}"
+    if unreadable:
+        summary += f" (certificate {', '.join(unreadable)} does not parse)"
     return ProbeOutcome(target.text, tuple(findings), protocol, summary)
 
 

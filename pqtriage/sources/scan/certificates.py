@@ -124,58 +124,66 @@ def _name(name: x509.Name) -> str:
     return name.rfc4514_string()
 
 
-def _common_name(cert: x509.Certificate | x509.CertificateSigningRequest) -> str | None:
-    values = cert.subject.get_attributes_for_oid(x509.NameOID.COMMON_NAME)
+def _common_name(subject: x509.Name) -> str | None:
+    values = subject.get_attributes_for_oid(x509.NameOID.COMMON_NAME)
     if values:
         value = values[0].value
         return value if isinstance(value, str) else value.decode("utf-8", "replace")
     return None
 
 
-def _dns_names(cert: x509.Certificate) -> list[str]:
+def _extension_values(cert: x509.Certificate) -> tuple[dict[type, object], tuple[str, ...]]:
+    """Extension values by class, read in one pass; a note when they do not parse.
+
+    The library parses extensions on first access and raises ValueError for malformed ones
+    (found by fuzzing); the certificate's key and signature are still worth reporting.
+    """
     try:
-        san = cert.extensions.get_extension_for_class(x509.SubjectAlternativeName)
-    except x509.ExtensionNotFound:
+        return {type(extension.value): extension.value for extension in cert.extensions}, ()
+    except ValueError:
+        return {}, ("extensions do not parse (ignored)",)
+
+
+def _dns_names(values: dict[type, object]) -> list[str]:
+    san = values.get(x509.SubjectAlternativeName)
+    if not isinstance(san, x509.SubjectAlternativeName):
         return []
-    return san.value.get_values_for_type(x509.DNSName)
+    return san.get_values_for_type(x509.DNSName)
 
 
-def _key_usage(cert: x509.Certificate) -> tuple[tuple[str, ...], bool, bool]:
+_USAGE_ATTRIBUTES = (
+    "digital_signature",
+    "content_commitment",
+    "key_encipherment",
+    "data_encipherment",
+    "key_agreement",
+    "key_cert_sign",
+    "crl_sign",
+)
+_SIGNING_EKU = frozenset(
+    {
+        ExtendedKeyUsageOID.CODE_SIGNING,
+        ExtendedKeyUsageOID.EMAIL_PROTECTION,
+        ExtendedKeyUsageOID.TIME_STAMPING,
+    }
+)
+_TLS_EKU = frozenset({ExtendedKeyUsageOID.SERVER_AUTH, ExtendedKeyUsageOID.CLIENT_AUTH})
+
+
+def _key_usage(values: dict[type, object]) -> tuple[tuple[str, ...], bool, bool]:
     """Return (usage names, CA flag, has code/e-mail/time-stamp-only EKU)."""
     names: list[str] = []
-    ca = False
-    try:
-        ca = cert.extensions.get_extension_for_class(x509.BasicConstraints).value.ca
-    except x509.ExtensionNotFound:
-        pass
-    try:
-        usage = cert.extensions.get_extension_for_class(x509.KeyUsage).value
-        for attribute in (
-            "digital_signature",
-            "content_commitment",
-            "key_encipherment",
-            "data_encipherment",
-            "key_agreement",
-            "key_cert_sign",
-            "crl_sign",
-        ):
-            if getattr(usage, attribute):
-                names.append(attribute)
-    except x509.ExtensionNotFound:
-        pass
+    constraints = values.get(x509.BasicConstraints)
+    ca = isinstance(constraints, x509.BasicConstraints) and constraints.ca
+    usage = values.get(x509.KeyUsage)
+    if isinstance(usage, x509.KeyUsage):
+        names.extend(attribute for attribute in _USAGE_ATTRIBUTES if getattr(usage, attribute))
     signing_only_eku = False
-    try:
-        eku = list(cert.extensions.get_extension_for_class(x509.ExtendedKeyUsage).value)
-        names.extend(oid._name for oid in eku)
-        signing = {
-            ExtendedKeyUsageOID.CODE_SIGNING,
-            ExtendedKeyUsageOID.EMAIL_PROTECTION,
-            ExtendedKeyUsageOID.TIME_STAMPING,
-        }
-        tls = {ExtendedKeyUsageOID.SERVER_AUTH, ExtendedKeyUsageOID.CLIENT_AUTH}
-        signing_only_eku = bool(set(eku) & signing) and not set(eku) & tls
-    except x509.ExtensionNotFound:
-        pass
+    extended = values.get(x509.ExtendedKeyUsage)
+    if isinstance(extended, x509.ExtendedKeyUsage):
+        eku = set(extended)
+        names.extend(oid._name for oid in extended)
+        signing_only_eku = bool(eku & _SIGNING_EKU) and not eku & _TLS_EKU
     return tuple(names), ca, signing_only_eku
 
 
@@ -225,14 +233,22 @@ def signature_facts(cert: x509.Certificate) -> tuple[KeyFacts, tuple[str, ...]]:
 def describe_certificate(
     cert: x509.Certificate, source: SourceRef, protocol: str | None = None
 ) -> list[Finding]:
-    """Return two findings for a certificate: its own key, and the issuer's signature on it."""
-    usage, ca, signing_only_eku = _key_usage(cert)
+    """Return two findings for a certificate: its own key, and the issuer's signature on it.
+
+    Raises ValueError when the subject, issuer or validity does not parse (the library parses
+    them on first use, not at load); extensions that do not parse are noted and ignored.
+    """
+    # The library builds a new Name object on every access: read each once.
+    subject, issuer = cert.subject, cert.issuer
+    subject_text = _name(subject)
+    values, extension_note = _extension_values(cert)
+    usage, ca, signing_only_eku = _key_usage(values)
     facts = _certificate_key(cert)
-    dns = _dns_names(cert)
+    dns = _dns_names(values)
     common = {
-        "subject": _name(cert.subject),
-        "subject_name": _common_name(cert) or (dns[0] if dns else None) or _name(cert.subject),
-        "issuer": _name(cert.issuer),
+        "subject": subject_text,
+        "subject_name": _common_name(subject) or (dns[0] if dns else None) or subject_text,
+        "issuer": _name(issuer),
         "not_before": cert.not_valid_before_utc.date().isoformat(),
         "not_after": cert.not_valid_after_utc.date().isoformat(),
         "ca": ca,
@@ -248,10 +264,11 @@ def describe_certificate(
         key_size=facts.key_size,
         curve=facts.curve,
         parameter_set=facts.parameter_set,
+        notes=extension_note,
         **common,  # type: ignore[arg-type]
     )
     signature, notes = signature_facts(cert)
-    self_signed = cert.issuer == cert.subject
+    self_signed = issuer == subject
     if self_signed and signature.algorithm == facts.algorithm and facts.curve:
         signature = KeyFacts(signature.algorithm, facts.key_size, facts.curve, facts.parameter_set)
     sig_source = SourceRef(source.file, source.line, source.column, _suffix(source, "signature"))
@@ -263,7 +280,7 @@ def describe_certificate(
         key_size=signature.key_size,
         curve=signature.curve,
         parameter_set=signature.parameter_set,
-        notes=notes + (("self-signed",) if self_signed else ()),
+        notes=notes + (("self-signed",) if self_signed else ()) + extension_note,
         **common,  # type: ignore[arg-type]
     )
     return [key, signed]
@@ -286,7 +303,7 @@ def describe_csr(csr: x509.CertificateSigningRequest, source: SourceRef) -> list
             curve=facts.curve,
             parameter_set=facts.parameter_set,
             subject=_name(csr.subject),
-            subject_name=_common_name(csr),
+            subject_name=_common_name(csr.subject),
             notes=("certificate signing request",),
         )
     ]

@@ -28,7 +28,9 @@ MATERIAL_SUFFIXES = (
     ".pk8", ".csr", ".req", ".p12", ".pfx", ".jwk", ".jwks",
 )  # fmt: skip
 
-_PARSE_ERRORS = (ValueError, TypeError, UnsupportedAlgorithm)
+# x509.InvalidVersion is not a ValueError: a certificate version other than v1 or v3 raises it
+# (found by fuzzing).
+_PARSE_ERRORS = (ValueError, TypeError, UnsupportedAlgorithm, x509.InvalidVersion)
 
 
 def der_total_length(data: bytes) -> int | None:
@@ -70,7 +72,10 @@ def parse_der_object(der: bytes, source: SourceRef, password: bytes | None) -> l
     except _PARSE_ERRORS:
         certificates = None
     if certificates is not None:
-        return pkcs7_findings(certificates, source)
+        try:
+            return pkcs7_findings(certificates, source)
+        except _PARSE_ERRORS:
+            return None  # a certificate's name or extension does not parse
     try:
         return describe_key(serialization.load_der_public_key(der), source, private=False)
     except _PARSE_ERRORS:

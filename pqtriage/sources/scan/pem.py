@@ -39,33 +39,67 @@ from pqtriage.sources.scan.findings import (
 from pqtriage.sources.scan.sshwire import WireError, parse_openssh_private_key
 
 _BEGIN = re.compile(rb"^-----BEGIN ([A-Z0-9 #]{1,64})-----[ \t]*\r?$", re.MULTILINE)
-_PARSE_ERRORS = (ValueError, TypeError, UnsupportedAlgorithm)
+# x509.InvalidVersion is not a ValueError: a certificate version other than v1 or v3 raises it
+# (found by fuzzing).
+_PARSE_ERRORS = (ValueError, TypeError, UnsupportedAlgorithm, x509.InvalidVersion)
 _LEGACY_KEYS = {"RSA PRIVATE KEY": "RSA", "EC PRIVATE KEY": "ECDSA", "DSA PRIVATE KEY": "DSA"}
 _IGNORED = {"X509 CRL", "EC PARAMETERS", "PGP SIGNATURE", "SIGNATURE"}
 
 
 def has_pem(data: bytes) -> bool:
     """True when the bytes contain at least one PEM BEGIN line."""
-    return _BEGIN.search(data) is not None
+    return _next_begin(data, 0) is not None
+
+
+def _at_line_start(data: bytes, position: int) -> bool:
+    return position == 0 or data[position - 1] == 0x0A  # as "^" in re.MULTILINE
+
+
+def _next_begin(data: bytes, start: int) -> re.Match[bytes] | None:
+    """The next BEGIN line at or after ``start``.
+
+    bytes.find locates candidates; the regex only checks each one. A MULTILINE search for
+    ``^-----BEGIN`` tries every position of the file and cost a fifth of a certificate scan.
+    """
+    position = data.find(b"-----BEGIN ", start)
+    while position >= 0:
+        if _at_line_start(data, position):
+            match = _BEGIN.match(data, position)
+            if match is not None:
+                return match
+        position = data.find(b"-----BEGIN ", position + 1)
+    return None
+
+
+def _end_line(data: bytes, label: bytes, start: int) -> tuple[int, int] | None:
+    """(start, end) of the first ``-----END <label>-----`` at a line start after ``start``."""
+    needle = b"-----END " + label + b"-----"
+    position = data.find(needle, start)
+    while position >= 0 and not _at_line_start(data, position):
+        position = data.find(needle, position + 1)
+    return None if position < 0 else (position, position + len(needle))
 
 
 def parse_pem(data: bytes, path: str, password: bytes | None) -> ParseOutcome:
     """Describe every block of a PEM file."""
     findings: list[Finding] = []
     problems: list[ScanProblem] = []
-    for number, match in enumerate(_BEGIN.finditer(data), start=1):
+    number = 0
+    match = _next_begin(data, 0)
+    while match is not None:
+        number += 1
         label = match.group(1).decode("ascii")
         line = data.count(b"\n", 0, match.start()) + 1
         source = SourceRef(path, line=line, detail=f"block{number}")
         place = f"{path}#block{number}"
-        end = re.compile(rb"^-----END " + re.escape(match.group(1)) + rb"-----", re.MULTILINE)
-        end_match = end.search(data, match.end())
-        next_begin = _BEGIN.search(data, match.end())
-        if end_match is None or (next_begin is not None and next_begin.start() < end_match.start()):
+        end = _end_line(data, match.group(1), match.end())
+        next_begin = _next_begin(data, match.end())
+        current, match = match, next_begin
+        if end is None or (next_begin is not None and next_begin.start() < end[0]):
             problems.append(ScanProblem(place, ProblemKind.TRUNCATED, f"{label} has no END line"))
             continue
-        body = data[match.end() : end_match.start()]
-        block_text = data[match.start() : end_match.end()] + b"\n"
+        body = data[current.end() : end[0]]
+        block_text = data[current.start() : end[1]] + b"\n"
         try:
             outcome = _block(label, body, block_text, source, password)
         except _BlockError as error:
@@ -84,6 +118,13 @@ class _BlockError(Exception):
 
 def _decode_body(body: bytes, label: str) -> tuple[bytes, dict[str, str]]:
     """Split RFC 1421 headers from the base64 body and decode it."""
+    if b":" not in body:  # no headers: the common case, decoded without a per-line loop
+        try:
+            der = base64.b64decode(body.translate(None, b"\r\n"), validate=True)
+        except (binascii.Error, ValueError):
+            der = b""  # blanks or other bytes inside: the full path below says what is wrong
+        if der:
+            return _checked_length(der, label), {}
     headers: dict[str, str] = {}
     lines = body.strip().splitlines()
     text_lines: list[bytes] = []
@@ -100,12 +141,16 @@ def _decode_body(body: bytes, label: str) -> tuple[bytes, dict[str, str]]:
         raise _BlockError(ProblemKind.CORRUPT, f"{label} body is not valid base64") from error
     if not der:
         raise _BlockError(ProblemKind.CORRUPT, f"{label} body is empty")
+    return _checked_length(der, label), headers
+
+
+def _checked_length(der: bytes, label: str) -> bytes:
     total = der_total_length(der)
     if total is not None and total > len(der):
         raise _BlockError(
             ProblemKind.TRUNCATED, f"{label} announces {total} bytes but holds {len(der)}"
         )
-    return der, headers
+    return der
 
 
 def _block(
@@ -120,9 +165,10 @@ def _block(
         try:
             # TRUSTED CERTIFICATE (OpenSSL) appends trust settings after the certificate.
             cert = x509.load_der_x509_certificate(der[:total] if total else der)
+            # Names and extensions are parsed on first use: they may fail here too.
+            return describe_certificate(cert, source)
         except _PARSE_ERRORS:
             raise corrupt from None
-        return describe_certificate(cert, source)
     if label in {"CERTIFICATE REQUEST", "NEW CERTIFICATE REQUEST"}:
         try:
             return describe_csr(x509.load_der_x509_csr(der), source)

@@ -64,6 +64,7 @@ class WireReader:
 
 
 _CURVES = {"nistp256": "P-256", "nistp384": "P-384", "nistp521": "P-521"}
+_CURVE_BITS = {"P-256": 256, "P-384": 384, "P-521": 521}
 _CERT_SUFFIX = "-cert-v01@openssh.com"
 
 
@@ -111,7 +112,8 @@ def _key_fields(reader: WireReader, base: str) -> tuple[str, int | None, str | N
         curve_id = reader.string().decode("ascii", "replace")
         reader.string()  # the point
         curve = _CURVES.get(curve_id, curve_id)
-        size = int(curve[2:]) if curve.startswith("P-") else None
+        # Only known curves have a size: a blob may name any curve, even "P-x" (found by fuzzing).
+        size = _CURVE_BITS.get(curve)
         if base.startswith("sk-"):
             reader.string()  # application
         return "ECDSA", size, curve
