@@ -217,6 +217,10 @@ def test_probe_reports_a_hostile_peer_in_one_line_and_goes_on(
     assert line.startswith(f"{target}: unreachable: "), line
     assert any(word in line for word in words), line
     inventory = json.loads(outcome.stdout)
-    assert [s["source"] for s in inventory["systems"]] == [tls_server], "the good server is still probed"
+    probed = [s["source"] for s in inventory["systems"] if s["uses"]]
+    assert probed == [tls_server], "the good server is still probed"
+    # The hostile target is not dropped: it stays as a system with no uses (unassessed in triage).
+    (failed,) = [s for s in inventory["systems"] if not s["uses"]]
+    assert failed["source"] == target and failed["notes"].startswith("probe failed, not assessed:")
     assert outcome.seconds - probe_startup < TIME_BUDGET + timeout, outcome.seconds
     assert outcome.peak_rss < MEMORY_BUDGET, outcome.peak_rss
