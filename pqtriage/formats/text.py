@@ -30,6 +30,8 @@ def visible(text: object) -> str:
     """One line of text with control, format and bidi characters shown as escapes."""
     value = "" if text is None else str(text)
     value = _INVISIBLE.sub(_visible, value)
+    if value.isascii():  # no format characters outside the controls handled above
+        return value
     # Other format characters (category Cf) can reorder or hide text too.
     return "".join(
         f"\\u{ord(c):04x}" if unicodedata.category(c) == "Cf" else c for c in value

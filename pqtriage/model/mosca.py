@@ -9,6 +9,7 @@ until a CRQC breaks the algorithm.
 from __future__ import annotations
 
 import datetime as dt
+import functools
 import math
 
 from pqtriage.catalog.spec import AlgorithmSpec, Resolution
@@ -39,6 +40,7 @@ def x_years(use: CryptoUse, system: System) -> tuple[float, tuple[str, ...]]:
     return 0.0, ()
 
 
+@functools.lru_cache(maxsize=65536)
 def _evaluate_spec(
     spec: AlgorithmSpec,
     purpose: str,
@@ -95,6 +97,46 @@ def _worse(a: tuple, b: tuple) -> bool:
     return (SEVERITY[a[0]], a[1], -margin_a) > (SEVERITY[b[0]], b[1], -margin_b)
 
 
+def evaluation_parts(
+    use: CryptoUse, system: System, spec: AlgorithmSpec, x: float
+) -> list[tuple[AlgorithmSpec, str, float]]:
+    """What is evaluated for a use: the algorithm itself, or each part of a cipher suite
+    with the x of its own purpose (key exchange and cipher: shelf-life; authentication: 0)."""
+    if spec.primitive == "cipher-suite" and spec.components:
+        parts = []
+        for component in spec.components:
+            if component.purpose in ("key-establishment", "encryption"):
+                part_x = system.shelf_life_years
+            elif component.purpose in ("signature", "integrity") and use.trust_years is not None:
+                part_x = float(use.trust_years)
+            else:
+                part_x = 0.0
+            parts.append((component.spec, component.purpose, part_x))
+        return parts
+    return [(spec, use.purpose.value, x)]
+
+
+def use_verdict(
+    use: CryptoUse,
+    system: System,
+    spec: AlgorithmSpec | None,
+    profile: ThreatProfile,
+    arrival: ArrivalModel,
+    as_of: dt.date,
+) -> Verdict:
+    """Only the verdict of a use (for sensitivity runs): the same rules as evaluate_use."""
+    if spec is None:
+        return Verdict.UNASSESSED
+    x, _ = x_years(use, system)
+    best: tuple | None = None
+    for part, purpose, part_x in evaluation_parts(use, system, spec, x):
+        result = _evaluate_spec(part, purpose, part_x, system.migration_years, profile, arrival, as_of)
+        if best is None or _worse(result, best):
+            best = result
+    assert best is not None
+    return best[0]  # type: ignore[no-any-return]
+
+
 def evaluate_use(
     use: CryptoUse,
     system: System,
@@ -116,14 +158,7 @@ def evaluate_use(
             replacement=None, suggestions=resolution.suggestions, assumptions=assumptions + assumed,
         )
     spec = resolution.spec
-    parts: list[tuple[AlgorithmSpec, str, float]] = []
-    if spec.primitive == "cipher-suite" and spec.components:
-        for component in spec.components:
-            part_x = system.shelf_life_years if component.purpose in ("key-establishment", "encryption") else (
-                float(use.trust_years) if use.trust_years is not None and component.purpose in ("signature", "integrity") else 0.0)
-            parts.append((component.spec, component.purpose, part_x))
-    else:
-        parts.append((spec, use.purpose.value, x))
+    parts = evaluation_parts(use, system, spec, x)
     best: tuple | None = None
     deciding: AlgorithmSpec | None = None
     for part, purpose, part_x in parts:

@@ -9,8 +9,9 @@ from pqtriage.catalog.spec import AlgorithmSpec
 from pqtriage.model.arrival import ArrivalModel
 from pqtriage.model.inventory import Inventory
 from pqtriage.model.profile import ThreatProfile
-from pqtriage.model.triage import Resolver, triage
-from pqtriage.model.verdict import TriageResult, Verdict
+from pqtriage.model.mosca import use_verdict
+from pqtriage.model.triage import Resolver
+from pqtriage.model.verdict import SEVERITY, TriageResult, Verdict
 
 DEFAULT_SHIFTS: tuple[int, ...] = (-5, -3, -1, 1, 3, 5)
 """Years earlier (negative) or later (positive) the CRQC is assumed to arrive."""
@@ -61,11 +62,25 @@ def sensitivity(
     as_of: dt.date,
     shifts: tuple[int, ...] = DEFAULT_SHIFTS,
 ) -> Sensitivity:
-    """Re-run the triage with the arrival moved by each shift and collect verdict changes."""
-    runs = {
-        shift: {i.system.id: i.verdict for i in triage(inventory, catalog, profile, ShiftedArrival(arrival, shift), as_of).items}
-        for shift in shifts
-    }
+    """Re-evaluate every use with the arrival moved by each shift and collect verdict changes.
+
+    Uses the baseline's catalog resolutions; only verdicts are recomputed (same rules as
+    triage: a system's verdict is its weakest use's).
+    """
+    del inventory, catalog  # the baseline already holds both, resolved
+    runs: dict[int, dict[str, Verdict]] = {}
+    for shift in shifts:
+        moved = ShiftedArrival(arrival, shift)
+        verdicts: dict[str, Verdict] = {}
+        for item in baseline.items:
+            if not item.uses:
+                verdicts[item.system.id] = Verdict.UNASSESSED
+                continue
+            verdicts[item.system.id] = max(
+                (use_verdict(u.use, item.system, u.spec, profile, moved, as_of) for u in item.uses),
+                key=lambda v: SEVERITY[v],
+            )
+        runs[shift] = verdicts
     rows = []
     unchanged = 0
     for item in baseline.items:

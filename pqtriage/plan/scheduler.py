@@ -11,7 +11,7 @@ does not fit leaves the capacity to the next one (greedy list scheduling).
 from __future__ import annotations
 
 import math
-from collections import defaultdict
+from collections import Counter, defaultdict
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
@@ -137,7 +137,8 @@ def check_dependencies(tasks: Sequence[Task]) -> None:
         PlanError: naming the system and the offending id, or the cycle.
     """
     ids = [t.id for t in tasks]
-    duplicates = sorted({i for i in ids if ids.count(i) > 1})
+    counts = Counter(ids)
+    duplicates = sorted(i for i, n in counts.items() if n > 1)
     if duplicates:
         raise PlanError(f"system id(s) {', '.join(duplicates)} appear more than once")
     known = set(ids)
