@@ -8,8 +8,8 @@ from dataclasses import dataclass
 from pqtriage.catalog.spec import AlgorithmSpec
 from pqtriage.model.arrival import ArrivalModel
 from pqtriage.model.inventory import Inventory
-from pqtriage.model.profile import ThreatProfile
 from pqtriage.model.mosca import use_verdict
+from pqtriage.model.profile import ThreatProfile
 from pqtriage.model.triage import Resolver
 from pqtriage.model.verdict import SEVERITY, TriageResult, Verdict
 
