@@ -17,6 +17,7 @@ from typing import Any
 import yaml
 
 from pqtriage.errors import EXIT_FINDINGS, EXIT_OK, InventoryError, Place, UsageError
+from pqtriage.model.inventory import Purpose, SourceRef
 from pqtriage.output import write_atomic  # noqa: F401  (the one writer; re-exported for callers)
 from pqtriage.sources.probe.runner import DEFAULT_CONCURRENCY, DEFAULT_TIMEOUT, run_probes
 from pqtriage.sources.probe.targets import parse_target, read_targets_file
@@ -31,7 +32,7 @@ from pqtriage.sources.scan.emit import (
     slugify,
     unique_id,
 )
-from pqtriage.sources.scan.findings import Finding, FindingKind, ScanProblem
+from pqtriage.sources.scan.findings import Finding, FindingKind, ProblemKind, ScanProblem
 from pqtriage.sources.scan.grouping import GroupBy, group_findings
 from pqtriage.sources.scan.merge import merge_inventory, path_scope, target_scope
 from pqtriage.sources.scan.scanner import plan, scan_entries
@@ -223,9 +224,27 @@ def scan_command(
     summary.extend(problem.line() for problem in result.problems)
     summary.extend(_problem_counts(result.problems))
     return _finish(
-        list(result.findings), rule, organization, shelf_life_years, migration_years, merge,
+        list(result.findings) + damaged_findings(result.problems), rule, organization, shelf_life_years, migration_years, merge,
         path_scope(list(paths)), output, output_format, summary, not result.complete,
     )  # fmt: skip
+
+
+def damaged_findings(problems: tuple[ScanProblem, ...] | list[ScanProblem]) -> list[Finding]:
+    """Corrupt or truncated material stays in the inventory as an unknown use (unassessed in
+    triage), so nothing found is dropped; unreadable files and skips stay notes only."""
+    found = []
+    for problem in problems:
+        if problem.kind not in (ProblemKind.CORRUPT, ProblemKind.TRUNCATED):
+            continue
+        path, _, detail = problem.place.partition("#")
+        found.append(Finding(
+            source=SourceRef(path, detail=detail or None),
+            kind=FindingKind.DAMAGED,
+            algorithm="unknown",
+            purpose=Purpose.AUTHENTICATION,
+            notes=(f"{problem.kind.value} material, not assessed: {problem.reason}",),
+        ))
+    return found
 
 
 def probe_command(

@@ -29,6 +29,8 @@ class FindingKind(str, Enum):
     SSH_HOST_KEY = "ssh-host-key"
     SSH_CIPHER = "ssh-cipher"
     SSH_MAC = "ssh-mac"
+    DAMAGED = "damaged"
+    """Material recognised as cryptographic but corrupt or truncated: kept as an unknown use."""
 
 
 class ProblemKind(str, Enum):

@@ -102,7 +102,11 @@ def test_exit_code_one_when_something_is_unreadable(tmp_path: Path) -> None:
     result = scan_command([str(tmp_path)])
     assert result.exit_code == 1
     assert any(line.endswith("truncated: CERTIFICATE has no END line") for line in result.summary)
-    assert len(_systems(result.text)[0]["uses"]) == 2  # the good file is still in the inventory
+    uses = _systems(result.text)[0]["uses"]
+    assert len(uses) == 3  # the good certificate's two uses, and the damaged one kept as unknown
+    damaged = [u for u in uses if u["algorithm"] == "unknown"]
+    assert len(damaged) == 1 and damaged[0]["source"].endswith("cut.pem#block1")
+    assert damaged[0]["notes"].startswith("truncated material, not assessed:")
 
 
 def test_walk_limits_are_notes_not_failures(tmp_path: Path) -> None:
