@@ -10,6 +10,7 @@ does not fit leaves the capacity to the next one (greedy list scheduling).
 
 from __future__ import annotations
 
+import heapq
 import math
 from collections import Counter, defaultdict
 from collections.abc import Mapping, Sequence
@@ -164,16 +165,16 @@ def topological_order(tasks: Sequence[Task]) -> list[str]:
     for task in tasks:
         for dep in task.depends_on:
             dependants[dep].append(task.id)
-    ready = sorted(i for i, deps in remaining.items() if not deps)
+    ready = [i for i, deps in remaining.items() if not deps]
+    heapq.heapify(ready)  # smallest id first, as a sorted list would give, in O(n log n)
     order: list[str] = []
     while ready:
-        current = ready.pop(0)
+        current = heapq.heappop(ready)
         order.append(current)
         for child in dependants[current]:
             remaining[child].discard(current)
             if not remaining[child]:
-                ready.append(child)
-        ready.sort()
+                heapq.heappush(ready, child)
     return order
 
 
