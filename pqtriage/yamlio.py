@@ -119,7 +119,7 @@ def load_yaml(text: str, path: str, error: ErrorFactory) -> Node | None:
         place = Place(path, mark.line + 1, mark.column + 1) if mark else Place(path)
         problem = exc.problem or exc.context or "invalid YAML"
         if "nesting depth" in problem:  # newer libyaml builds stop deep documents themselves
-            raise error(f"nesting deeper than {MAX_DEPTH} levels (the YAML parser's own limit)",
+            raise error(f"nesting deeper than the YAML parser allows (pqtriage's own limit is {MAX_DEPTH} levels)",
                         place=place, hint="flatten the document") from exc
         raise error(f"invalid YAML: {problem}", place=place, hint="check indentation and quoting") from exc
     except yaml.YAMLError as exc:

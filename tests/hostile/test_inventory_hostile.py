@@ -33,7 +33,7 @@ LARGE_MEMORY_BUDGET = {"flow-flood-12mb": 300 * 1024 * 1024, "inventory-50mb": 3
 
 EXPECTED: dict[str, str] = {
     "alias-bomb": "alias bomb",
-    "deep-nesting-1000": "nesting deeper than 64 levels",
+    "deep-nesting-1000": "nesting deeper than",  # our 64-level limit, or libyaml's own in newer wheels
     "flow-flood-12mb": "has more than 1,000,000 values",
     "inventory-50mb": "larger than 16 MiB",
     "nul-byte": "NUL byte",
