@@ -8,6 +8,8 @@ from typing import List, Optional
 
 import typer
 
+from pqtriage.commands.discovery import CommandResult
+
 
 class DiscoveryFormat(str, Enum):
     """--format values of scan and probe."""
@@ -25,7 +27,7 @@ class GroupBy(str, Enum):
     host = "host"
 
 
-def _finish(result: object) -> None:
+def _finish(result: CommandResult) -> None:
     text = result.text
     if result.written is None:
         sys.stdout.write(text)

@@ -25,6 +25,10 @@ class ArrivalModel(Protocol):
         """Years after the reference task's arrival that ``spec`` falls (inf = never in horizon)."""
         ...
 
+    def __hash__(self) -> int:
+        """Models are hashable (by identity by default), so evaluations can be memoised."""
+        ...
+
 
 class SharedArrival:
     """Every Shor-attackable algorithm falls with the reference task.

@@ -40,6 +40,8 @@ def x_years(use: CryptoUse, system: System) -> tuple[float, tuple[str, ...]]:
     return 0.0, ()
 
 
+# Memoised per run: many uses share algorithm, purpose, x and y (arguments are immutable or
+# compared by identity, so a cached result is exactly what a fresh call would return).
 @functools.lru_cache(maxsize=65536)
 def _evaluate_spec(
     spec: AlgorithmSpec,

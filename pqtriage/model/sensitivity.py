@@ -84,9 +84,9 @@ def sensitivity(
     rows = []
     unchanged = 0
     for item in baseline.items:
-        verdicts = tuple((shift, runs[shift][item.system.id]) for shift in shifts)
-        if any(v != item.verdict for _, v in verdicts):
-            rows.append(SensitivityRow(item.system.id, item.verdict, verdicts))
+        moved_verdicts = tuple((shift, runs[shift][item.system.id]) for shift in shifts)
+        if any(v != item.verdict for _, v in moved_verdicts):
+            rows.append(SensitivityRow(item.system.id, item.verdict, moved_verdicts))
         else:
             unchanged += 1
     return Sensitivity(shifts=shifts, rows=tuple(rows), unchanged=unchanged)

@@ -42,9 +42,8 @@ from pqtriage.sources.cbom_side import (
     CbomSideFile,
     load_side_file,
 )
-from pqtriage.sources.interface import InventorySource, read_input
+from pqtriage.sources.interface import InventorySource
 from pqtriage.sources.yaml_inventory import find_cycle
-from pqtriage.yamlio import MAX_FILE_BYTES, decode_text
 
 SUPPORTED_VERSIONS = ("1.6", "1.7")
 """specVersion values read without a warning (cryptographic assets exist since 1.6)."""
@@ -379,16 +378,12 @@ class CycloneDxSource(InventorySource):
 def load_inventory_with_side_file(path: str, side_file: str | None) -> Inventory:
     """Read an inventory; a CycloneDX one gets the side file's values (``--cbom-defaults FILE``)."""
     from pqtriage.errors import UsageError
-    from pqtriage.sources.loading import load_inventory
+    from pqtriage.sources.loading import load_inventory, read_inventory_text
 
     if side_file is None:
         return load_inventory(path)
     side = load_side_file(side_file)
-    data, sha256 = read_input(path)
-    if len(data) > MAX_FILE_BYTES:
-        raise InventoryError(f"the file is larger than {MAX_FILE_BYTES // (1024 * 1024)} MiB",
-                             place=Place(path), hint="split the inventory into several files")
-    text = decode_text(data, path, InventoryError)
+    text, sha256 = read_inventory_text(path)
     source = CycloneDxSource(side)
     if not source.accepts(text):
         raise UsageError(f"{path} is not a CycloneDX BOM, so a CBOM side file does not apply to it",
