@@ -7,8 +7,10 @@ Every case puts one bad file (or one hostile loopback peer) beside a good one an
 - the documented exit code: scan 0 when everything was read (skips are notes), 1 when
   something could not be read; probe 1 when a target failed (pqtriage/commands/discovery.py);
 - never a ``Traceback``, and no private-key material in stdout or stderr;
-- the budgets of tests/hostile/test_inventory_hostile.py: 2 s of work beyond the start-up of
-  the same command on good input only, and 200 MB of peak memory.
+- the budgets of tests/hostile/test_inventory_hostile.py: 4 s of CPU time beyond the start-up of
+  the same command on good input only, and 200 MB of peak memory. A probe's waiting is not CPU
+  time: that it gives up on a stalling peer is shown by its "timed out" line, and the runner's
+  hard timeout guards against a hang.
 
 Formats: PEM per RFC 7468, DER per ITU-T X.690 section 8.1, PKCS#12 per RFC 7292,
 authorized_keys per the sshd(8) manual (AUTHORIZED_KEYS FILE FORMAT); the peers are
@@ -112,9 +114,9 @@ def good_folder(folder: Path) -> Path:
 
 @pytest.fixture(scope="module")
 def scan_startup(tmp_path_factory: pytest.TempPathFactory) -> float:
-    """Seconds a scan of one good certificate takes here (start-up and imports)."""
+    """CPU seconds a scan of one good certificate takes here (start-up and imports)."""
     folder = good_folder(tmp_path_factory.mktemp("scan-startup"))
-    return min(run_cli("scan", str(folder), "--format", "json").seconds for _ in range(2))
+    return min(run_cli("scan", str(folder), "--format", "json").cpu_seconds for _ in range(2))
 
 
 def assert_clean(outcome: Outcome) -> None:
@@ -156,7 +158,7 @@ def test_scan_reports_each_bad_file_in_one_line_and_goes_on(
     assert f"{folder / 'web.pem'}#block1" in sources, "the good certificate is still found"
     if name == "authorized-keys-garbage":
         assert f"{bad}#line1" in sources, "the good key line is still found"
-    assert outcome.seconds - scan_startup < TIME_BUDGET, outcome.seconds
+    assert outcome.cpu_seconds - scan_startup < TIME_BUDGET, outcome.cpu_seconds
     assert outcome.peak_rss < MEMORY_BUDGET, outcome.peak_rss
 
 
@@ -173,7 +175,7 @@ def test_scan_skips_a_symlink_loop_with_a_note(tmp_path: Path, scan_startup: flo
                          (folder / "b.pem", "skipped: symbolic link loop")):
         (line,) = problem_lines(outcome, str(place))
         assert words in line, line
-    assert outcome.seconds - scan_startup < TIME_BUDGET
+    assert outcome.cpu_seconds - scan_startup < TIME_BUDGET
 
 
 @pytest.mark.skipif(os.geteuid() == 0, reason="root reads files whatever their mode")
@@ -197,8 +199,8 @@ def tls_server(tmp_path_factory: pytest.TempPathFactory) -> Iterator[str]:
 
 @pytest.fixture(scope="module")
 def probe_startup(tls_server: str) -> float:
-    """Seconds a probe of the good server alone takes here."""
-    return min(run_cli("probe", tls_server, "--format", "json").seconds for _ in range(2))
+    """CPU seconds a probe of the good server alone takes here."""
+    return min(run_cli("probe", tls_server, "--format", "json").cpu_seconds for _ in range(2))
 
 
 @pytest.mark.network
@@ -222,5 +224,5 @@ def test_probe_reports_a_hostile_peer_in_one_line_and_goes_on(
     # The hostile target is not dropped: it stays as a system with no uses (unassessed in triage).
     (failed,) = [s for s in inventory["systems"] if not s["uses"]]
     assert failed["source"] == target and failed["notes"].startswith("probe failed, not assessed:")
-    assert outcome.seconds - probe_startup < TIME_BUDGET + timeout, outcome.seconds
+    assert outcome.cpu_seconds - probe_startup < TIME_BUDGET, outcome.cpu_seconds
     assert outcome.peak_rss < MEMORY_BUDGET, outcome.peak_rss

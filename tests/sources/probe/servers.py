@@ -110,13 +110,53 @@ def pyopenssl_server(folder: Path) -> Iterator[int]:
         yield port
 
 
+class Overlap:
+    """Counts client connections open at the same moment across servers.
+
+    Evidence that a probe works on its targets concurrently without timing it: probed one
+    after another, a silent server's connection is closed by the client's timeout before the
+    next target is contacted, so at most one is ever open; probed concurrently, all are.
+    """
+
+    def __init__(self) -> None:
+        self._lock = threading.Lock()
+        self._open = 0
+        self.most = 0
+        """The largest number of connections seen open at once."""
+
+    def enter(self) -> None:
+        """A connection was accepted."""
+        with self._lock:
+            self._open += 1
+            self.most = max(self.most, self._open)
+
+    def leave(self) -> None:
+        """A connection ended."""
+        with self._lock:
+            self._open -= 1
+
+
 @contextmanager
-def banner_server(banner: bytes, linger: float = 0.05) -> Iterator[int]:
-    """A server that speaks something else: sends a line (maybe nothing), waits, hangs up."""
+def banner_server(banner: bytes, linger: float = 0.05, overlap: Overlap | None = None) -> Iterator[int]:
+    """A server that speaks something else: sends a line (maybe nothing), then keeps the
+    connection until the client hangs up or ``linger`` seconds pass, and hangs up."""
 
     def handle(conn: socket.socket) -> None:
-        conn.sendall(banner)
-        time.sleep(linger)
+        if overlap is not None:
+            overlap.enter()
+        try:
+            conn.sendall(banner)
+            ends = time.monotonic() + linger
+            while (left := ends - time.monotonic()) > 0:
+                conn.settimeout(left)
+                try:
+                    if not conn.recv(4096):
+                        return  # the client hung up
+                except TimeoutError:
+                    return
+        finally:
+            if overlap is not None:
+                overlap.leave()
 
     with _serve(handle) as port:
         yield port

@@ -8,7 +8,6 @@ algorithms. KEXINIT layout: RFC 4253 section 7.1.
 
 from __future__ import annotations
 
-import time
 from pathlib import Path
 
 import pytest
@@ -63,23 +62,28 @@ def test_classical_only_openssh(tmp_path: Path) -> None:
 
 
 def test_closed_port_and_non_ssh_server() -> None:
+    overlap = servers.Overlap()
     with (
         servers.closed_port() as closed,
         servers.banner_server(b"HTTP/1.1 400 Bad Request\r\n\r\n") as http,
-        servers.banner_server(b"", linger=2.0) as silent,
+        servers.banner_server(b"", linger=30.0, overlap=overlap) as silent,
+        servers.banner_server(b"", linger=30.0, overlap=overlap) as quiet,
     ):
-        started = time.monotonic()
         result = probe_command(
-            [f"ssh://127.0.0.1:{closed}", f"ssh://127.0.0.1:{http}", f"ssh://127.0.0.1:{silent}"],
-            timeout=0.5,
+            [f"ssh://127.0.0.1:{closed}", f"ssh://127.0.0.1:{http}", f"ssh://127.0.0.1:{silent}",
+             f"ssh://127.0.0.1:{quiet}"],
+            timeout=1.0,
         )
-        elapsed = time.monotonic() - started
-    assert elapsed < 1.5  # bounded, and run concurrently
+    # Bounded: the silent servers would hold their connections for 30 s; the probe gave up on
+    # its own timeout (the "timed out" lines). Concurrent: both silent connections were open at
+    # once, which one-after-another probing cannot produce (servers.Overlap).
+    assert overlap.most == 2
     assert result.exit_code == 1
     lines = "\n".join(result.summary)
     assert f"ssh://127.0.0.1:{closed}: unreachable: refused" in lines
     assert f"ssh://127.0.0.1:{http}: unreachable: not SSH" in lines
     assert f"ssh://127.0.0.1:{silent}: unreachable: timed out" in lines
+    assert f"ssh://127.0.0.1:{quiet}: unreachable: timed out" in lines
 
 
 def test_pseudo_algorithms_are_ignored() -> None:

@@ -8,7 +8,6 @@ X25519MLKEM768 (draft-ietf-tls-ecdhe-mlkem, codepoint 0x11EC, published-figures.
 from __future__ import annotations
 
 import re
-import time
 from pathlib import Path
 
 import pytest
@@ -55,10 +54,10 @@ def test_probe_tells_classical_and_hybrid_servers_apart(tmp_path: Path) -> None:
 
 def test_closed_port_and_wrong_protocol_fail_fast_and_clearly(tmp_path: Path) -> None:
     with servers.closed_port() as closed, servers.banner_server(b"SSH-2.0-Fictional\r\n") as other:
-        started = time.monotonic()
-        result = probe_command([f"127.0.0.1:{closed}", f"127.0.0.1:{other}"], timeout=3)
-        elapsed = time.monotonic() - started
-    assert elapsed < 3
+        result = probe_command([f"127.0.0.1:{closed}", f"127.0.0.1:{other}"], timeout=30)
+    # Fast and clear: neither target waited for the 30 s timeout (no "timed out" line), each
+    # says what it found.
+    assert not any("timed out" in line for line in result.summary), result.summary
     assert result.exit_code == 1
     assert (
         f"127.0.0.1:{closed}: unreachable: refused (nothing listens on that port)" in result.summary
@@ -72,11 +71,9 @@ def test_closed_port_and_wrong_protocol_fail_fast_and_clearly(tmp_path: Path) ->
 
 
 def test_silent_server_times_out_within_the_bound() -> None:
-    with servers.banner_server(b"", linger=2.0) as silent:
-        started = time.monotonic()
+    with servers.banner_server(b"", linger=30.0) as silent:
         result = probe_command([f"127.0.0.1:{silent}"], timeout=0.5)
-        elapsed = time.monotonic() - started
-    assert elapsed < 1.5
+    # The server would hold the connection for 30 s: the probe ended on its own 0.5 s timeout.
     assert result.exit_code == 1
     assert f"127.0.0.1:{silent}: unreachable: timed out during the TLS handshake" in result.summary
 
