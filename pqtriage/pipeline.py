@@ -11,7 +11,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from pqtriage.errors import UsageError
-from pqtriage.model.arrival import ArrivalModel, SharedArrival
+from pqtriage.model.arrival_model import ArrivalModel, SharedArrival
 from pqtriage.model.profile import ThreatProfile
 from pqtriage.model.triage import triage
 from pqtriage.model.verdict import TriageResult
@@ -43,7 +43,7 @@ def arrival_model_for(profile: ThreatProfile, as_of: dt.date | None = None) -> A
     if not profile.per_algorithm_arrival:
         return SharedArrival()
     from pqtriage.model.profile import decimal_year
-    from pqtriage.threat.arrival import ResourceArrivalModel
+    from pqtriage.threat.resource_arrival import ResourceArrivalModel
 
     if as_of is None:
         return ResourceArrivalModel(doubling_years=profile.qubit_doubling_years)
@@ -98,7 +98,7 @@ def load_any(inventory_path: str, cbom_defaults: str | None = None) -> Any:
         from pqtriage.sources.loading import load_inventory
 
         return load_inventory(inventory_path)
-    from pqtriage.sources.cbom import load_inventory_with_side_file
+    from pqtriage.sources.loading import load_inventory_with_side_file
 
     return load_inventory_with_side_file(inventory_path, cbom_defaults)
 

@@ -46,7 +46,7 @@ def load_review(path: str, profile: str | None, as_of: Any, cbom_defaults: str |
     from pqtriage.catalog import load_catalog
     from pqtriage.model.triage import triage
     from pqtriage.pipeline import arrival_model_for
-    from pqtriage.sources.cbom import load_inventory_with_side_file
+    from pqtriage.sources.loading import load_inventory_with_side_file
     from pqtriage.sources.profile_file import load_profile
 
     inventory = load_inventory_with_side_file(path, cbom_defaults)

@@ -14,7 +14,7 @@ from rich.console import RenderableType
 
 from pqtriage.catalog.spec import AlgorithmSpec, Resolution
 from pqtriage.errors import EXIT_OK, UsageError
-from pqtriage.threat.arrival import ArrivalDistribution, ResourceArrivalModel
+from pqtriage.threat.resource_arrival import ArrivalDistribution, ResourceArrivalModel
 from pqtriage.threat.estimate import Estimate, estimate
 from pqtriage.threat.methods import MethodData, load_method_data
 from pqtriage.threat.parameters import ThreatParameters

@@ -14,7 +14,7 @@ from rich.console import Group, RenderableType
 from rich.table import Table
 from rich.text import Text
 
-from pqtriage.threat.arrival import ArrivalRow
+from pqtriage.threat.resource_arrival import ArrivalRow
 from pqtriage.threat.estimate import Estimate
 
 NOT_APPLICABLE = "-"

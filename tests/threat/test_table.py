@@ -12,7 +12,7 @@ from hypothesis import strategies as st
 
 from pqtriage.model.profile import decimal_year
 from pqtriage.sources.profile_file import load_profile
-from pqtriage.threat.arrival import ResourceArrivalModel
+from pqtriage.threat.resource_arrival import ResourceArrivalModel
 from pqtriage.threat.estimate import estimate
 from pqtriage.threat.parameters import ThreatParameters
 from pqtriage.threat.table import TableContext, compact_names, group_estimates, side_by_side

@@ -1,4 +1,4 @@
-"""How each algorithm's CRQC arrival relates to the profile's reference task.
+"""The ArrivalModel protocol, and the shared arrival (one arrival for every algorithm).
 
 The threat profile gives a distribution for the year a cryptographically
 relevant quantum computer (CRQC) first completes a reference task (RSA-2048
