@@ -10,10 +10,10 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from pqtriage.catalog.spec import AlgorithmSpec
-from pqtriage.threat.resource_arrival import ArrivalRow, ResourceArrivalModel
 from pqtriage.threat.grover import break_even_oracle_operations, grover_resources
 from pqtriage.threat.methods import MethodData, load_method_data
 from pqtriage.threat.parameters import ThreatParameters
+from pqtriage.threat.resource_arrival import ArrivalRow, ResourceArrivalModel
 from pqtriage.threat.shor import logical_resources, select_method
 from pqtriage.threat.surface_code import physical_resources
 

@@ -11,7 +11,7 @@ from html.parser import HTMLParser
 
 import pytest
 
-from pqtriage.formats.markdown import render_report
+from pqtriage.formats.markdown.triage import render_report
 from pqtriage.model.arrival_model import SharedArrival
 from pqtriage.model.inventory import CryptoUse, Inventory, Purpose, System
 from pqtriage.model.triage import triage

@@ -10,8 +10,8 @@ from hypothesis import strategies as st
 
 from pqtriage.errors import ProfileError, UsageError
 from pqtriage.model.arrival_model import ArrivalModel
-from pqtriage.threat.resource_arrival import ResourceArrivalModel
 from pqtriage.threat.parameters import ThreatParameters
+from pqtriage.threat.resource_arrival import ResourceArrivalModel
 from tests.threat.helpers import cipher, curve, ffdh, hash_, rsa
 
 DEFAULT = ResourceArrivalModel()

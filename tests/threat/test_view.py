@@ -9,9 +9,10 @@ import math
 import pytest
 from rich.console import Console, RenderableType
 
-from pqtriage.threat.resource_arrival import ArrivalRow
+from pqtriage.formats.json.estimate import to_json_dict
+from pqtriage.formats.table.estimate import compact_hours, compact_qubits, working_view
 from pqtriage.threat.estimate import Estimate, estimate
-from pqtriage.threat.view import compact_hours, compact_qubits, to_json_dict, working_view
+from pqtriage.threat.resource_arrival import ArrivalRow
 from tests.threat.helpers import cipher, hash_, rsa
 
 JSON_FIELDS = (
