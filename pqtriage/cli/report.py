@@ -9,19 +9,22 @@ import typer
 from pqtriage.cli.common import (
     AS_OF_HELP,
     CBOM_DEFAULTS_HELP,
+    OUTPUT_HELP,
     PROFILE_HELP,
     VerdictChoice,
     chart_path_for,
+    check_outputs,
     console,
     emit,
     fail_code,
+    profile_input,
     to_file,
 )
 
 
 def report_command(
     inventory: str = typer.Argument(..., help="Inventory file (pqtriage YAML or CycloneDX JSON)."),
-    output: Optional[str] = typer.Option(None, "--output", "-o", help="Markdown file to write (stdout if absent); the timeline chart goes beside it as NAME-timeline.svg."),
+    output: Optional[str] = typer.Option(None, "--output", "-o", help="Markdown file to write (stdout if absent or -); the timeline chart goes beside it as NAME-timeline.svg. " + OUTPUT_HELP),
     profile: Optional[str] = typer.Option(None, "--profile", help=PROFILE_HELP),
     as_of: Optional[str] = typer.Option(None, "--as-of", help=AS_OF_HELP),
     policy: Optional[List[str]] = typer.Option(None, "--policy", help="Policy timeline for the plan section (repeatable); added to those the inventory names."),
@@ -39,10 +42,12 @@ def report_command(
     from pqtriage.formats.table.summary import summary_block
     from pqtriage.pipeline import parse_as_of, prepare
 
+    inputs = [inventory, profile_input(profile), cbom_defaults]
+    chart = chart_path_for(output) if to_file(output) and output else None
+    check_outputs(output, inputs, chart)
     run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults)
     result = run.result
     the_plan = run.plan(tuple(policy or ()), capacity)
-    chart = chart_path_for(output) if to_file(output) and output else None
     sections = [
         plan_section(the_plan, Path(chart).name if chart else None),
         sensitivity_markdown(run.sensitivity()),
@@ -50,7 +55,7 @@ def report_command(
     if chart:
         from pqtriage.cli.output import write_atomic
 
-        write_atomic(chart, plan_svg(the_plan))
-    emit(render_report(result, sections), output)
+        write_atomic(chart, plan_svg(the_plan), inputs)
+    emit(render_report(result, sections), output, inputs)
     console(stderr=True).print(summary_block(result))
     raise typer.Exit(fail_code(result, fail_on))

@@ -9,7 +9,14 @@ from typing import Any, List, Optional
 
 import typer
 
-from pqtriage.cli.common import DiscoveryFormat, GroupByChoice, finish_discovery, write_discovery
+from pqtriage.cli.common import (
+    OUTPUT_HELP,
+    DiscoveryFormat,
+    GroupByChoice,
+    check_outputs,
+    finish_discovery,
+    write_discovery,
+)
 
 
 @contextmanager
@@ -43,13 +50,17 @@ def scan_command(
     """
     from pqtriage.sources.scan.run import scan_inventory
 
+    # The --merge inventory may be the output (updated in place: it is read whole first);
+    # the password file and every scanned file may not.
+    inputs = [options.get("password_file")]
+    check_outputs(output, inputs)
     result = scan_inventory(paths, progress=lambda total: _progress(total, progress), **options)
-    return write_discovery(result, output)
+    return write_discovery(result, output, inputs)
 
 
 def scan(
     paths: List[str] = typer.Argument(..., help="Files and folders to scan for keys and certificates."),
-    output: Optional[str] = typer.Option(None, "--output", "-o", help="Write the inventory here (stdout if absent)."),
+    output: Optional[str] = typer.Option(None, "--output", "-o", help="Write the inventory here (stdout if absent). The --merge inventory may be named to update it in place. " + OUTPUT_HELP),
     output_format: DiscoveryFormat = typer.Option(DiscoveryFormat.yaml, "--format", "-f", help="yaml (an inventory) or json (same content)."),
     group_by: GroupByChoice = typer.Option(GroupByChoice.folder, "--group-by", help="How findings become systems."),
     merge: Optional[str] = typer.Option(None, "--merge", help="Fold the scan into this existing inventory (hand-written fields kept)."),

@@ -9,13 +9,16 @@ import typer
 from pqtriage.cli.common import (
     AS_OF_HELP,
     CBOM_DEFAULTS_HELP,
+    OUTPUT_HELP,
     PROFILE_HELP,
     ResultFormatChoice,
     VerdictChoice,
+    check_outputs,
     console,
     emit,
     fail_code,
     plain_text,
+    profile_input,
     result_formats,
     to_file,
 )
@@ -24,7 +27,7 @@ from pqtriage.cli.common import (
 def triage_command(
     inventory: str = typer.Argument(..., help="Inventory file (pqtriage YAML or CycloneDX JSON)."),
     output_format: ResultFormatChoice = typer.Option(ResultFormatChoice.table, "--format", "-f", help="Output format."),
-    output: Optional[str] = typer.Option(None, "--output", "-o", help="Write to this file instead of stdout."),
+    output: Optional[str] = typer.Option(None, "--output", "-o", help=OUTPUT_HELP),
     profile: Optional[str] = typer.Option(None, "--profile", help=PROFILE_HELP),
     as_of: Optional[str] = typer.Option(None, "--as-of", help=AS_OF_HELP),
     top: Optional[int] = typer.Option(None, "--top", min=1, help="Show only the N most urgent systems (table)."),
@@ -34,6 +37,8 @@ def triage_command(
     """Rank the inventory's systems by post-quantum exposure."""
     from pqtriage.pipeline import parse_as_of, run_triage
 
+    inputs = [inventory, profile_input(profile), cbom_defaults]
+    check_outputs(output, inputs)
     result = run_triage(inventory, profile, parse_as_of(as_of), cbom_defaults)
     formatter = result_formats()[output_format.value]
     if formatter is None:
@@ -41,11 +46,11 @@ def triage_command(
 
         view = terminal_view(result, top)
         if to_file(output):
-            emit(plain_text(view), output)
+            emit(plain_text(view), output, inputs)
         else:
             console().print(view)
     else:
-        emit(formatter.render(result), output)
+        emit(formatter.render(result), output, inputs)
         if to_file(output):
             from pqtriage.formats.table.summary import summary_block
 

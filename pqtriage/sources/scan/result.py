@@ -43,6 +43,8 @@ class CommandResult:
     """0 when everything was read or reached, 1 otherwise."""
     written: str | None = None
     """Path the inventory was written to, if any."""
+    read: frozenset[tuple[int, int]] = frozenset()
+    """(device, inode) of every file the run read: ``-o`` may not name one of them."""
 
 
 def check_format(output_format: str) -> None:

@@ -8,6 +8,7 @@ writes nothing; progress is reported through a plain callback the caller supplie
 
 from __future__ import annotations
 
+import dataclasses
 import os
 from collections.abc import Callable
 from contextlib import AbstractContextManager, nullcontext
@@ -92,10 +93,12 @@ def scan_inventory(
     ]
     summary.extend(problem.line() for problem in result.problems)
     summary.extend(_problem_counts(result.problems))
-    return finish_inventory(
+    done = finish_inventory(
         list(result.findings) + damaged_findings(result.problems), rule, organization, shelf_life_years, migration_years, merge,
         path_scope(list(paths)), output_format, summary, not result.complete,
     )  # fmt: skip
+    read = frozenset(entry.identity for entry in entries if entry.identity is not None)
+    return dataclasses.replace(done, read=read)
 
 
 def damaged_findings(problems: tuple[ScanProblem, ...] | list[ScanProblem]) -> list[Finding]:

@@ -26,6 +26,8 @@ class FileEntry:
     """Path as the user named it, joined with the names below it."""
     size: int
     """Size in bytes at walk time."""
+    identity: tuple[int, int] | None = None
+    """(device, inode) at walk time."""
 
 
 def walk(
@@ -91,7 +93,7 @@ def _visit(
             f"larger than the limit ({info.st_size} > {max_file_bytes} bytes)",
         )
         return
-    yield FileEntry(path, info.st_size)
+    yield FileEntry(path, info.st_size, identity)
 
 
 def _kind(mode: int) -> str:
