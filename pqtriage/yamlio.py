@@ -51,6 +51,8 @@ class Node:
     """For a mapping entry: 1-based column of its key."""
     tag: str = ""
     """Resolved YAML tag (tag:yaml.org,2002:int ...)."""
+    alias_of: int | None = None
+    """For an alias (``*name``): the line of its anchor; ``line`` and ``column`` are the alias's."""
 
 
 ErrorFactory = Callable[..., PqtriageError]
@@ -282,7 +284,9 @@ class _Builder:
                     raise self.too_many(event)
                 if len(stack) + height > MAX_DEPTH:
                     raise self.too_deep(event, alias=True)
-                node = Node(target.value, target.line, target.column, key[0], key[1], target.tag)
+                # The alias's own place: an error about this value is reported where it is used.
+                line, column = _position(event)
+                node = Node(target.value, line, column, key[0], key[1], target.tag, target.line)
             else:
                 assert isinstance(event, yaml.ScalarEvent)
                 if parent is not None and parent.mapping and parent.pending_key is None:

@@ -40,6 +40,8 @@ _ESCAPE_TAIL = re.compile(r"\\(x[0-9a-f]{0,1}|u[0-9a-f]{0,3}|U[0-9a-f]{0,7})$")
 _SPACES = re.compile(" {2,}")
 _DECISIONS: dict[str, str] = {}
 ELLIPSIS = "…"
+MAX_CELL_CHARACTERS = 200
+"""Longest input text drawn in one terminal table cell; the JSON output keeps all of it."""
 
 
 def _escape_code(char: str) -> str:
@@ -76,15 +78,6 @@ def visible(text: object) -> str:
     if value.isascii():  # the common case: nothing else can hide or reorder text
         return value
     return "".join(c if c.isascii() else _shown(c) for c in value)
-
-
-def spelled_out(text: object) -> str:
-    """:func:`visible`, and every other non-ASCII character as its escape too.
-
-    For messages about look-alike ids: ``'p\\u0430y'`` and ``'pay'`` differ where the eye
-    cannot tell them apart.
-    """
-    return "".join(c if c.isascii() else _escape_code(c) for c in visible(text))
 
 
 def shorten(text: str, limit: int) -> str:

@@ -22,6 +22,7 @@ Grouping rule (docs/interop.md, "CBOM import"):
 from __future__ import annotations
 
 import json
+import math
 import re
 from collections import deque
 from typing import Any
@@ -42,6 +43,7 @@ from pqtriage.sources.cbom_side import (
     CbomSideFile,
 )
 from pqtriage.sources.interface import InventorySource
+from pqtriage.sources.schema import FieldSpec
 from pqtriage.sources.yaml_inventory import find_cycle
 
 SUPPORTED_VERSIONS = ("1.6", "1.7")
@@ -320,8 +322,7 @@ class _BomReader:
             key = spec.name
             if key in side:
                 values[key] = side[key]
-            elif key in own and (value := self._property(spec.kind, spec.choices, own[key], spec.minimum,
-                                                          spec.maximum)) is not None:
+            elif key in own and (value := self._property(spec, own[key])) is not None:
                 values[key] = value
                 if key in flagged:
                     assumed.append(key)
@@ -335,17 +336,17 @@ class _BomReader:
         return values, assumed
 
     @staticmethod
-    def _property(kind: str, choices: tuple[str, ...], text: str, low: float | None,
-                  high: float | None) -> Any:
-        if kind == "number":
+    def _property(spec: FieldSpec, text: str) -> Any:
+        if spec.kind == "number":
             try:
                 number = float(text)
             except ValueError:
                 return None
-            ok = (low is None or number >= low) and (high is None or number <= high)
+            ok = math.isfinite(number) and not spec.below_minimum(number) and (
+                spec.maximum is None or number <= spec.maximum)
             return number if ok else None
-        if kind == "enum":
-            return text if text in choices else None
+        if spec.kind == "enum":
+            return text if text in spec.choices else None
         return text if text.strip() else None
 
     def _organization(self, metadata: dict[str, Any]) -> str:

@@ -44,13 +44,26 @@ class FieldSpec:
     required: bool = False
     """Whether the field must be present (after file defaults are applied)."""
     minimum: float | None = None
-    """Smallest accepted number."""
+    """Smallest accepted number (itself excluded when ``exclusive_minimum``)."""
+    exclusive_minimum: bool = False
+    """Whether the number must be strictly greater than ``minimum``."""
     maximum: float | None = None
     """Largest accepted number."""
     choices: tuple[str, ...] = ()
     """Accepted values of an enum."""
     defaultable: bool = False
     """Whether the file's ``defaults`` section may supply it."""
+
+    def below_minimum(self, value: float) -> bool:
+        """Whether a number is under the field's lower bound."""
+        if self.minimum is None:
+            return False
+        return value <= self.minimum if self.exclusive_minimum else value < self.minimum
+
+    def lower_bound_text(self) -> str:
+        """The lower bound for messages: 'the minimum 0' or 'more than 0'."""
+        assert self.minimum is not None
+        return f"more than {self.minimum:g}" if self.exclusive_minimum else f"the minimum {self.minimum:g}"
 
 
 USE_FIELDS: tuple[FieldSpec, ...] = (
@@ -75,8 +88,10 @@ SYSTEM_FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("name", "str", "Human-readable name (defaults to the id)."),
     FieldSpec("shelf_life_years", "number", "Mosca's x: how long the data must stay confidential.",
               required=True, minimum=0, maximum=MAX_SHELF_LIFE_YEARS, defaultable=True),
-    FieldSpec("migration_years", "number", "Mosca's y: how long migrating the system takes.",
-              required=True, minimum=0, maximum=MAX_MIGRATION_YEARS, defaultable=True),
+    FieldSpec("migration_years", "number", "Mosca's y: how long migrating the system takes "
+              "(more than 0: a migration takes time, and the plan needs a duration).",
+              required=True, minimum=0, exclusive_minimum=True, maximum=MAX_MIGRATION_YEARS,
+              defaultable=True),
     FieldSpec("depends_on", "string-list", "Ids of systems that must migrate first."),
     FieldSpec("owner", "str", "Accountable person or team.", defaultable=True),
     FieldSpec("description", "str", "Free text."),
@@ -115,7 +130,7 @@ def _field_schema(spec: FieldSpec) -> dict[str, Any]:
     elif spec.kind in ("number", "integer"):
         schema = {"type": spec.kind}
         if spec.minimum is not None:
-            schema["minimum"] = spec.minimum
+            schema["exclusiveMinimum" if spec.exclusive_minimum else "minimum"] = spec.minimum
         if spec.maximum is not None:
             schema["maximum"] = spec.maximum
     elif spec.kind == "enum":

@@ -6,7 +6,7 @@ import difflib
 import math
 from typing import Any
 
-from pqtriage.errors import InventoryError, Place
+from pqtriage.errors import InventoryError, Place, chain_text, quoted
 from pqtriage.model.inventory import (
     Criticality,
     CryptoUse,
@@ -17,6 +17,7 @@ from pqtriage.model.inventory import (
     System,
 )
 from pqtriage.sources.interface import InventorySource
+from pqtriage.sources.lookalike import lookalike_key, lookalike_pairs, looks_alike, spelled_out
 from pqtriage.sources.schema import (
     DEFAULTABLE,
     SYSTEM_FIELDS,
@@ -76,8 +77,11 @@ class _Reader:
                 raise self.fail(node, f"{label} must be a whole number, got {value}")
             if isinstance(value, float) and not math.isfinite(value):
                 raise self.fail(node, f"{label} must be a finite number, got {value}")
-            if spec.minimum is not None and value < spec.minimum:
-                raise self.fail(node, f"{label} is {value}, below the minimum {spec.minimum:g}",
+            if spec.below_minimum(value):
+                if spec.exclusive_minimum:
+                    raise self.fail(node, f"{label} is {value}, it must be {spec.lower_bound_text()}",
+                                    "give the real duration, for example 0.5 for six months")
+                raise self.fail(node, f"{label} is {value}, below {spec.lower_bound_text()}",
                                 "years and sizes cannot be negative")
             if spec.maximum is not None and value > spec.maximum:
                 raise self.fail(node, f"{label} is {value}, above the maximum {spec.maximum:g}",
@@ -195,33 +199,54 @@ class _Reader:
         )
 
     def check_ids(self, nodes: list[Node], systems: list[System]) -> None:
-        seen: dict[str, int] = {}
+        """Ids unique, also after Unicode normalisation and look-alike folding; dependencies known
+        (or external, a warning); no cycle."""
+        seen: dict[str, Node] = {}
         for node, system in zip(nodes, systems, strict=True):
             if system.id in seen:
-                raise self.fail(node, f"duplicate system id '{system.id}' (first at line {seen[system.id]})",
-                                "give each system its own id")
-            seen[system.id] = node.line
+                first = seen[system.id]
+                alias = (f"; this entry is an alias of the system at line {node.alias_of}"
+                         if node.alias_of is not None else "")
+                raise self.fail(node, f"duplicate system id {quoted(system.id)} (first at line {first.line}){alias}",
+                                "give each system its own id" + (" (write it out instead of the alias)" if alias else ""))
+            seen[system.id] = node
+        ids = [s.id for s in systems]
+        for earlier, later in lookalike_pairs(ids):
+            raise self.fail(
+                nodes[later],
+                f"system id {quoted(spelled_out(ids[later]))} looks like {quoted(spelled_out(ids[earlier]))}"
+                f" (line {nodes[earlier].line}): they differ only by Unicode normalisation, invisible"
+                " or look-alike characters, so every output would show them the same",
+                "rename one of them (plain ASCII ids are safest)",
+            )
+        keys: dict[str, str] | None = None
         for node, system in zip(nodes, systems, strict=True):
             for dep in system.depends_on:
                 if dep not in seen:
-                    close = difflib.get_close_matches(dep, list(seen), n=1, cutoff=0.75)
                     where = _child(node, "depends_on")
+                    if keys is None:
+                        keys = {lookalike_key(i): i for i in reversed(ids)}
+                    twin = keys.get(lookalike_key(dep))
+                    if twin is not None and looks_alike(dep, twin):
+                        raise self.fail(where, f"system {quoted(system.id)} depends on {quoted(spelled_out(dep))},"
+                                        f" which looks like system {quoted(spelled_out(twin))} but is not the same text",
+                                        "copy the id exactly")
+                    close = difflib.get_close_matches(dep, ids, n=1, cutoff=0.75) if len(ids) <= 5000 else []
                     if close:  # almost certainly a typo of a system in this file
-                        raise self.fail(where, f"system '{system.id}' depends on unknown id '{dep}'",
-                                        f"did you mean '{close[0]}'?")
+                        raise self.fail(where, f"system {quoted(system.id)} depends on unknown id {quoted(dep)}",
+                                        f"did you mean {quoted(close[0])}?")
                     # A dependency outside this file (another team's PKI) is legitimate: warn.
                     self.warnings.append(
-                        f"{Place(self.path, where.line, where.column)}: system '{system.id}' depends on "
-                        f"'{dep}', which is not in this inventory; treated as an external dependency"
+                        f"{Place(self.path, where.line, where.column)}: system {quoted(system.id)} depends on "
+                        f"{quoted(dep)}, which is not in this inventory; treated as an external dependency"
                         " (add it to plan it too; 'check --strict' makes this an error)"
                     )
                 if dep == system.id:
-                    raise self.fail(_child(node, "depends_on"), f"system '{system.id}' depends on itself",
+                    raise self.fail(_child(node, "depends_on"), f"system {quoted(system.id)} depends on itself",
                                     "remove it from its own depends_on")
         cycle = find_cycle({s.id: s.depends_on for s in systems})
         if cycle:
-            first = next(n for n, s in zip(nodes, systems, strict=True) if s.id == cycle[0])
-            raise self.fail(first, "dependency cycle: " + " -> ".join(cycle + [cycle[0]]),
+            raise self.fail(seen[cycle[0]], "dependency cycle: " + chain_text(cycle, closed=True),
                             "break the cycle: one of them must migrate first")
 
 

@@ -7,7 +7,7 @@ from rich.text import Text
 
 from pqtriage.formats.labels import VERDICT_LABEL, sensitivity_title
 from pqtriage.formats.table.styles import VERDICT_STYLE
-from pqtriage.formats.text import visible
+from pqtriage.formats.text import MAX_CELL_CHARACTERS, cell
 from pqtriage.model.sensitivity import Sensitivity
 
 
@@ -19,7 +19,7 @@ def sensitivity_table(s: Sensitivity) -> Table:
     for shift in s.shifts:
         table.add_column(f"{shift:+d} y", no_wrap=True)
     for row in s.rows:
-        cells = [Text(visible(row.system_id)), Text(VERDICT_LABEL[row.baseline], style=VERDICT_STYLE[row.baseline])]
+        cells = [Text(cell(row.system_id, MAX_CELL_CHARACTERS)), Text(VERDICT_LABEL[row.baseline], style=VERDICT_STYLE[row.baseline])]
         for _, verdict in row.by_shift:
             cells.append(Text(VERDICT_LABEL[verdict], style=VERDICT_STYLE[verdict]))
         table.add_row(*cells)

@@ -10,7 +10,7 @@ from rich.text import Text
 from pqtriage.formats.labels import VERDICT_LABEL, short_replacement
 from pqtriage.formats.table.styles import VERDICT_STYLE
 from pqtriage.formats.table.summary import summary_block
-from pqtriage.formats.text import visible
+from pqtriage.formats.text import MAX_CELL_CHARACTERS, cell
 from pqtriage.model.verdict import SystemAssessment, TriageResult
 
 _PURPOSE_SHORT = {
@@ -44,13 +44,13 @@ def _row(item: SystemAssessment, as_of: object) -> list[RenderableType]:
     else:
         spec = weakest.deciding or weakest.spec
         name = spec.name if spec else weakest.use.algorithm
-        algo = Text(visible(name))
+        algo = Text(cell(name, MAX_CELL_CHARACTERS))
         algo.append(f" {_PURPOSE_SHORT[weakest.use.purpose.value]}", style="dim")
         x = _years(weakest.x_years)
         replacement = short_replacement(weakest.replacement)
     probability = "-" if item.exposure_probability is None else f"{item.exposure_probability:.0%}"
     start_by = _start_by(item, as_of)
-    system = Text(visible(item.system.id))
+    system = Text(cell(item.system.id, MAX_CELL_CHARACTERS))
     if item.system.assumed:
         system.append("*", style="bold")
     return [
@@ -62,15 +62,15 @@ def _row(item: SystemAssessment, as_of: object) -> list[RenderableType]:
         start_by,
         probability,
         Text(VERDICT_LABEL[item.verdict], style=VERDICT_STYLE[item.verdict]),
-        Text(visible(replacement)),
+        Text(cell(replacement, MAX_CELL_CHARACTERS)),
     ]
 
 
 def ranked_table(result: TriageResult, top: int | None = None) -> Table:
     """The ranked table: one row per system, most urgent first."""
     table = Table(
-        title=Text(f"Post-quantum triage of {visible(result.inventory.organization)}"),
-        caption=Text(f"as of {result.as_of.isoformat()}, profile {visible(result.profile.name)}"),
+        title=Text(f"Post-quantum triage of {cell(result.inventory.organization, MAX_CELL_CHARACTERS)}"),
+        caption=Text(f"as of {result.as_of.isoformat()}, profile {cell(result.profile.name, MAX_CELL_CHARACTERS)}"),
         header_style="bold",
         box=box.SIMPLE_HEAD,
         expand=False,

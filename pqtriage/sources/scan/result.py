@@ -27,6 +27,7 @@ from pqtriage.sources.scan.emit import (
 from pqtriage.sources.scan.findings import Finding, FindingKind
 from pqtriage.sources.scan.grouping import GroupBy, group_findings
 from pqtriage.sources.scan.merge import merge_inventory
+from pqtriage.sources.schema import MAX_MIGRATION_YEARS, MAX_SHELF_LIFE_YEARS
 
 OUTPUT_FORMATS = ("yaml", "json")
 
@@ -54,9 +55,12 @@ def check_format(output_format: str) -> None:
 
 
 def check_years(shelf_life_years: float, migration_years: float) -> None:
-    """Refuse negative assumed years."""
-    if shelf_life_years < 0 or migration_years < 0:
-        raise UsageError("shelf-life and migration years must not be negative")
+    """Refuse assumed years the inventory format would refuse (the output must always triage)."""
+    if not 0 <= shelf_life_years <= MAX_SHELF_LIFE_YEARS:
+        raise UsageError(f"--shelf-life {shelf_life_years:g} is outside 0..{MAX_SHELF_LIFE_YEARS:g} years")
+    if not 0 < migration_years <= MAX_MIGRATION_YEARS:
+        raise UsageError(f"--migration-years {migration_years:g} must be more than 0 and at most "
+                         f"{MAX_MIGRATION_YEARS:g} years", hint="a migration takes time: for example 0.5")
 
 
 def load_existing(merge: str) -> Any:
