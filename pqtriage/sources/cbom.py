@@ -21,13 +21,13 @@ Grouping rule (docs/interop.md, "CBOM import"):
 
 from __future__ import annotations
 
-import json
 import math
 import re
 from collections import deque
 from typing import Any
 
-from pqtriage.errors import InventoryError, Place
+from pqtriage import jsonio
+from pqtriage.errors import InventoryError, Place, quoted
 from pqtriage.model.inventory import Criticality, CryptoUse, Exposure, Inventory, SourceRef, System
 from pqtriage.sources.cbom_assets import (
     Positions,
@@ -55,38 +55,10 @@ _REF_FIELDS = (("certificateProperties", ("signatureAlgorithmRef", "subjectPubli
                ("relatedCryptoMaterialProperties", ("algorithmRef",)))
 
 
-class _DuplicateKey(ValueError):
-    pass
-
-
-def _pairs(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
-    out: dict[str, Any] = {}
-    for key, value in pairs:
-        if key in out:
-            raise _DuplicateKey(key)
-        out[key] = value
-    return out
-
-
-def _constant(name: str) -> None:
-    raise ValueError(f"{name} is not a JSON number")
-
-
 def load_json(text: str, path: str) -> Any:
-    """Parse JSON strictly; errors name file:line:column (duplicate keys and NaN refused)."""
-    try:
-        return json.loads(text, object_pairs_hook=_pairs, parse_constant=_constant)
-    except json.JSONDecodeError as exc:
-        raise InventoryError(f"invalid JSON: {exc.msg}", place=Place(path, exc.lineno, exc.colno),
-                             hint="check commas, quotes and brackets") from exc
-    except RecursionError as exc:
-        raise InventoryError("JSON nested too deeply", place=Place(path),
-                             hint="flatten the document") from exc
-    except _DuplicateKey as exc:
-        raise InventoryError(f"duplicate key '{str(exc)[:80]}' in a JSON object", place=Place(path),
-                             hint="keep one of them") from exc
-    except ValueError as exc:
-        raise InventoryError(f"cannot read a JSON value: {str(exc)[:120]}", place=Place(path)) from exc
+    """Parse JSON strictly; errors name file:line:column (duplicate keys and NaN refused, depth
+    bounded): :func:`pqtriage.jsonio.load_json` with inventory errors."""
+    return jsonio.load_json(text, path, InventoryError)
 
 
 def asset_parts(component: dict[str, Any]) -> list[str]:
@@ -125,13 +97,19 @@ class _BomReader:
         self.provides: dict[str, list[str]] = {}
         self.subject: str | None = None
         self.positions = Positions("")
+        self.located = jsonio.JsonPositions("")
 
-    def fail(self, where: str, message: str, ref: str | None = None, hint: str | None = None) -> InventoryError:
-        line, column = self.positions.of(ref)
+    def fail(self, where: str, message: str, ref: str | None = None, hint: str | None = None,
+             at: str | None = None) -> InventoryError:
+        # The value the JSON path names (or ``at``), found in the text; else the nearest bom-ref.
+        line, column = self.located.at(at or where)
+        if line is None:
+            line, column = self.positions.of(ref)
         return InventoryError(f"{where}: {message}", place=Place(self.path, line, column), hint=hint)
 
     def inventory(self, text: str, sha256: str | None) -> Inventory:
         self.positions = Positions(text)
+        self.located = jsonio.JsonPositions(text)
         doc = load_json(text, self.path)
         if not isinstance(doc, dict) or doc.get("bomFormat") != "CycloneDX":
             raise InventoryError("not a CycloneDX BOM: the top level has no \"bomFormat\": \"CycloneDX\"",
@@ -180,7 +158,9 @@ class _BomReader:
             raise self.fail(where, "bom-ref must be non-empty text", parent)
         ref = ref or where
         if ref in self.nodes or ref in self.crypto:
-            raise self.fail(where, f"duplicate bom-ref '{ref[:80]}'", ref, "bom-refs must be unique in a BOM")
+            first, _ = self.positions.of(ref)
+            raise self.fail(where, f"duplicate bom-ref {quoted(ref, 80)} (first at line {first})", ref,
+                            "bom-refs must be unique in a BOM", at=f"{where}.bom-ref")
         is_crypto = component.get("type") == "cryptographic-asset" or "cryptoProperties" in component
         (self.crypto if is_crypto else self.nodes)[ref] = component
         if is_crypto and not isinstance(component.get("cryptoProperties"), dict):
