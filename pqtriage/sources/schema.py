@@ -16,7 +16,7 @@ MAX_SHELF_LIFE_YEARS = 100.0
 MAX_MIGRATION_YEARS = 50.0
 """Longest migration time accepted."""
 MAX_KEY_SIZE = 65536
-"""Largest key size accepted in bits."""
+"""Largest key size assessed, in bits (the catalog's limit): larger sizes make the use unassessed."""
 
 POLICY_CATEGORIES = (
     "software-firmware-signing",
@@ -71,8 +71,10 @@ USE_FIELDS: tuple[FieldSpec, ...] = (
               choices=tuple(p.value for p in Purpose)),
     FieldSpec("algorithm", "str", "Algorithm name in any common spelling (RSA, P-256, AES-128-GCM, "
               "ML-KEM-768, TLS_ECDHE_RSA_WITH_AES_128_GCM_SHA256 ...).", required=True),
-    FieldSpec("key_size", "integer", "Key or modulus size in bits, when the name does not fix it.",
-              minimum=1, maximum=MAX_KEY_SIZE),
+    # No range here: a scan can meet any size (a 100,000-bit RSA key), and nothing may make the
+    # whole file unreadable; a size outside 1..MAX_KEY_SIZE makes that one use unassessed.
+    FieldSpec("key_size", "integer", "Key or modulus size in bits, when the name does not fix it "
+              f"(a size outside 1..{MAX_KEY_SIZE} bits makes the use unassessed, with the reason)."),
     FieldSpec("curve", "str", "Elliptic curve, when the name does not fix it (P-256, secp384r1 ...)."),
     FieldSpec("parameter_set", "str", "Parameter set, when the name does not fix it (768, 65 ...)."),
     FieldSpec("trust_years", "number", "How long signatures or integrity tags made here must stay "

@@ -22,6 +22,8 @@ ALGORITHMS = ("RSA-2048", "RSA-3072", "ECDSA P-256", "X25519", "ML-KEM-768", "ML
 TEXT = st.text(st.characters(blacklist_categories=["Cs"], blacklist_characters="\x00"),
                min_size=1, max_size=24).filter(lambda s: s.strip() != "")
 YEARS = st.one_of(st.integers(0, 50).map(float), st.floats(0, 50, allow_nan=False).map(lambda v: round(v, 3)))
+MIGRATION_YEARS = YEARS.filter(lambda y: y > 0)
+"""migration_years must be more than 0 (the inventory format; a plan needs a duration)."""
 
 
 @st.composite
@@ -53,7 +55,7 @@ def inventories(draw: st.DrawFn, max_systems: int = 6, text_ids: bool = True) ->
             id=ident,
             name=draw(st.just(ident) | TEXT),
             shelf_life_years=draw(YEARS),
-            migration_years=draw(YEARS),
+            migration_years=draw(MIGRATION_YEARS),
             uses=tuple(draw(st.lists(uses(), max_size=3))),
             owner=draw(st.none() | TEXT),
             description=draw(st.none() | TEXT),

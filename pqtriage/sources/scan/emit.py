@@ -11,10 +11,10 @@ import re
 from collections.abc import Mapping
 from typing import Any
 
-import yaml
-
 from pqtriage.sources.scan.findings import Finding
 from pqtriage.sources.scan.grouping import Group
+from pqtriage.sources.schema import USE_FIELDS
+from pqtriage.sources.yaml_stream import dump_document
 
 #: Documented defaults (docs/discovery.md): a scan cannot know these, the owner must set them.
 DEFAULT_SHELF_LIFE_YEARS = 5
@@ -75,6 +75,47 @@ def use_dict(finding: Finding) -> dict[str, Any]:
     if notes:
         use["notes"] = notes
     use["source"] = finding.locator()
+    return conform_use(use)
+
+
+_USE_SPECS = {spec.name: spec for spec in USE_FIELDS}
+
+
+def conform_use(use: dict[str, Any]) -> dict[str, Any]:
+    """A use that the inventory reader accepts whatever the material held (issue 16: a scan
+    never writes an inventory that ``triage`` refuses whole).
+
+    Per item: an empty text field is left out (an empty algorithm becomes ``unknown``, so the
+    use is unassessed); a number above the format's maximum is written as the maximum (the
+    cautious side for a trust period) and one below the minimum is left out; each change is
+    said in the use's notes. Key sizes have no range in the format: the catalog makes a size
+    it cannot assess (a 100,000-bit RSA key) an unassessed use with the reason.
+    """
+    said: list[str] = []
+    for name, value in list(use.items()):
+        spec = _USE_SPECS.get(name)
+        if spec is None or value is None:
+            continue
+        if spec.kind == "str" and isinstance(value, str) and not value.strip():
+            if name == "algorithm":
+                use[name] = "unknown"  # an unknown use: unassessed in triage, kept in every output
+            else:
+                del use[name]
+            said.append(f"{name} was empty in the material")
+        elif spec.kind in ("number", "integer") and isinstance(value, (int, float)) and not isinstance(value, bool):
+            if spec.maximum is not None and value > spec.maximum:
+                use[name] = spec.maximum if spec.kind == "number" else int(spec.maximum)
+                said.append(f"{name} {value:g} is above the format's maximum {spec.maximum:g}; written as "
+                            f"{spec.maximum:g}")
+            elif spec.below_minimum(value):
+                del use[name]
+                said.append(f"{name} {value:g} is below {spec.lower_bound_text()}; left out")
+    if said:
+        notes = "; ".join(said)
+        use["notes"] = f"{use['notes']}; {notes}" if use.get("notes") else notes
+        source = use.pop("source", None)  # keep the source last, as in every other use
+        if source is not None:
+            use["source"] = source
     return use
 
 
@@ -119,7 +160,7 @@ def inventory_dict(
 def render(document: Mapping[str, Any], output_format: str = "yaml") -> str:
     """Inventory document as YAML (block style, key order kept) or JSON text."""
     if output_format == "json":
-        return json.dumps(document, indent=2, ensure_ascii=False) + "\n"
-    return yaml.safe_dump(
-        dict(document), sort_keys=False, allow_unicode=True, default_flow_style=False, width=100
-    )
+        # ensure_ascii: lone surrogates (undecodable file names) become \udcXX escapes, and no
+        # control or bidi character reaches a terminal that shows the file.
+        return json.dumps(document, indent=2, ensure_ascii=True) + "\n"
+    return dump_document(document)

@@ -46,6 +46,9 @@ class ProblemKind(str, Enum):
     """Deliberately not read: symlink loop, special file, oversized file."""
     UNREACHABLE = "unreachable"
     """A probe target that could not be reached or did not speak the protocol."""
+    WARNING = "warning"
+    """Read, but a library warned about it (a certificate serial number that is not positive):
+    the item is kept, the warning is noted beside it."""
 
 
 #: Problems that mean something could not be read (exit code 1); skips are notes only.

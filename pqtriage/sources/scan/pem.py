@@ -85,11 +85,13 @@ def parse_pem(data: bytes, path: str, password: bytes | None) -> ParseOutcome:
     findings: list[Finding] = []
     problems: list[ScanProblem] = []
     number = 0
+    line, counted = 1, 0  # lines counted so far: one pass over the file, not one per block
     match = _next_begin(data, 0)
     while match is not None:
         number += 1
         label = match.group(1).decode("ascii")
-        line = data.count(b"\n", 0, match.start()) + 1
+        line += data.count(b"\n", counted, match.start())
+        counted = match.start()
         source = SourceRef(path, line=line, detail=f"block{number}")
         place = f"{path}#block{number}"
         end = _end_line(data, match.group(1), match.end())

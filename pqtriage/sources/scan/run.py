@@ -133,7 +133,9 @@ def _group_rule(group_by: str) -> GroupBy:
 
 def _problem_counts(problems: tuple[ScanProblem, ...]) -> list[str]:
     failed = sum(problem.is_failure for problem in problems)
-    skipped = len(problems) - failed
-    if not problems:
-        return ["everything was read"]
-    return [f"{failed} could not be read, {skipped} skipped with a note"]
+    warned = sum(problem.kind is ProblemKind.WARNING for problem in problems)
+    skipped = len(problems) - failed - warned
+    if not failed and not skipped:
+        return ["everything was read" + (f" ({warned} with a library warning)" if warned else "")]
+    text = f"{failed} could not be read, {skipped} skipped with a note"
+    return [text + (f", {warned} read with a library warning" if warned else "")]

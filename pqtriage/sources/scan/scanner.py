@@ -9,6 +9,7 @@ case they are reported as corrupt.
 from __future__ import annotations
 
 import dataclasses
+import warnings
 from collections.abc import Callable, Iterable
 from dataclasses import dataclass
 
@@ -49,7 +50,27 @@ class ScanResult:
 
 
 def classify(data: bytes, path: str, password: bytes | None = None) -> ParseOutcome:
-    """Recognise one file's format and describe what it holds. Pure: bytes in, data out."""
+    """Recognise one file's format and describe what it holds. Pure: bytes in, data out.
+
+    Warnings the libraries raise while parsing (the cryptography library on a serial number
+    that is not positive, RFC 5280 section 4.1.2.2) are recorded, not printed: each becomes a
+    note on the file's findings and one summary line.
+    """
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        outcome = _classify(data, path, password)
+    if not caught:
+        return outcome
+    messages = list(dict.fromkeys(" ".join(str(w.message).split()) for w in caught))
+    notes = tuple(f"library warning: {message}" for message in messages)
+    return dataclasses.replace(
+        outcome,
+        findings=tuple(dataclasses.replace(f, notes=f.notes + notes) for f in outcome.findings),
+        problems=outcome.problems + tuple(ScanProblem(path, ProblemKind.WARNING, m) for m in messages),
+    )
+
+
+def _classify(data: bytes, path: str, password: bytes | None) -> ParseOutcome:
     if looks_like_pkcs12(data):
         return parse_pkcs12(data, path, password)
     if has_pem(data):
