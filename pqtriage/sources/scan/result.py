@@ -12,9 +12,7 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
-import yaml
-
-from pqtriage.errors import EXIT_FINDINGS, EXIT_OK, InventoryError, Place, UsageError
+from pqtriage.errors import EXIT_FINDINGS, EXIT_OK, InventoryError, ScanError, UsageError
 from pqtriage.sources.scan.emit import (
     ASSUMED_SYSTEM_FIELDS,
     DEFAULT_EXPOSURE,
@@ -28,6 +26,7 @@ from pqtriage.sources.scan.findings import Finding, FindingKind
 from pqtriage.sources.scan.grouping import GroupBy, group_findings
 from pqtriage.sources.scan.merge import merge_inventory
 from pqtriage.sources.schema import MAX_MIGRATION_YEARS, MAX_SHELF_LIFE_YEARS
+from pqtriage.yamlio import MAX_FILE_BYTES, MAX_NODES
 
 OUTPUT_FORMATS = ("yaml", "json")
 
@@ -65,21 +64,13 @@ def check_years(shelf_life_years: float, migration_years: float) -> None:
 
 def load_existing(merge: str) -> Any:
     """The inventory given to --merge, as plain YAML data (an empty file is an empty inventory)."""
-    try:
-        with open(merge, encoding="utf-8") as stream:
-            document = yaml.safe_load(stream)
-    except OSError as error:
-        raise InventoryError(
-            f"cannot read the inventory to merge into ({error.strerror})",
-            place=Place(merge),
-            hint="check the path given to --merge",
-        ) from error
-    except yaml.YAMLError as error:
-        mark = getattr(error, "problem_mark", None)
-        place = Place(merge, mark.line + 1, mark.column + 1) if mark else Place(merge)
-        raise InventoryError(
-            "the inventory to merge into is not valid YAML", place=place
-        ) from error
+    # The bounded reader of every inventory (size, values, depth, aliases): a hostile file given
+    # to --merge gets the same one-line errors as one given to triage.
+    from pqtriage.sources.interface import read_inventory_text
+    from pqtriage.yamlio import load_yaml, plain
+
+    text, _ = read_inventory_text(merge)
+    document = plain(load_yaml(text, merge, InventoryError))
     if document is None:
         document = {"version": 1, "organization": DEFAULT_ORGANIZATION, "systems": []}
     return document
@@ -140,4 +131,24 @@ def finish_inventory(
         document, report = merge_inventory(load_existing(merge), document, in_scope)
         summary.extend(report.lines())
     text = render(document, output_format)
+    check_readable(text, len(findings))
     return CommandResult(text, summary, EXIT_FINDINGS if failed else EXIT_OK)
+
+
+def check_readable(text: str, uses: int) -> None:
+    """Refuse to hand back an inventory that ``triage`` would refuse whole (issue 16).
+
+    The reader takes at most 16 MiB and 1,000,000 values (pqtriage.yamlio); every value of
+    the block YAML (and of the indented JSON) is on a line of its own, so counting lines
+    bounds the values. Nothing is written then: the fix is to scan in several runs.
+    """
+    size = len(text.encode("utf-8", "backslashreplace"))
+    lines = text.count("\n")
+    if size <= MAX_FILE_BYTES and lines <= MAX_NODES:
+        return
+    raise ScanError(
+        f"the inventory of {uses:,} uses would be {size / (1024 * 1024):.1f} MiB with up to {lines:,} "
+        f"values, more than 'pqtriage triage' reads ({MAX_FILE_BYTES // (1024 * 1024)} MiB, "
+        f"{MAX_NODES:,} values); nothing was written",
+        hint="scan fewer folders per run (one inventory each), or group them with --group-by",
+    )
