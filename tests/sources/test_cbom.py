@@ -262,6 +262,6 @@ def test_duplicate_bom_ref_is_refused_at_its_line(tmp_path: Path) -> None:
         load_inventory(_write(tmp_path, text))
     first = line_of_bom_ref(text, "alg-rsa")
     assert f"duplicate bom-ref 'alg-rsa' (first at line {first})" in caught.value.diagnostics()
-    # Reported at the second one: the bom-ref of components[3] (issue 16: the place of the error).
+    # Reported at the second one: the bom-ref of components[3]: the place of the error.
     second = next(n for n, line in enumerate(text.splitlines(), 1) if n > first and '"bom-ref": "alg-rsa"' in line)
     assert f"scan.cdx.json:{second}:" in caught.value.diagnostics()

@@ -157,7 +157,7 @@ def test_large_file_is_refused_before_parsing(tmp_path: Path) -> None:
 
 @pytest.mark.parametrize("size", [0, 100_000, 99999999999999999999999])
 def test_a_key_size_outside_the_catalog_range_makes_only_that_use_unassessed(tmp_path: Path, size: int) -> None:
-    """Issue 16 ("nothing dropped"): a scan can meet a 100,000-bit RSA key; the file still reads
+    """Nothing dropped: a scan can meet a 100,000-bit RSA key; the file still reads
     and the catalog says why that one use cannot be assessed."""
     from pqtriage.catalog import load_catalog
 

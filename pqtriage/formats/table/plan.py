@@ -66,14 +66,22 @@ def _timeline(plan: Plan, system: SystemPlan, period: Period, first: int, last: 
         marks[_period_key(plan, quarter_of(plan.origin, earliest.date), period)] = "D"
     text = Text()
     _, style = status_of(system)
+    run_char, run_style, run_length = "", "", 0  # consecutive equal cells go in as one span
     for key in range(first, last + 1):
         active = first_active <= key <= last_active
         if key in marks:
-            text.append(marks[key], style="bold reverse" if active else "bold")
+            char, char_style = marks[key], "bold reverse" if active else "bold"
         elif active:
-            text.append("█", style=style)
+            char, char_style = "█", style
         else:
-            text.append("·", style="dim")
+            char, char_style = "·", "dim"
+        if (char, char_style) != (run_char, run_style):
+            if run_length:
+                text.append(run_char * run_length, style=run_style)
+            run_char, run_style, run_length = char, char_style, 0
+        run_length += 1
+    if run_length:
+        text.append(run_char * run_length, style=run_style)
     return text
 
 

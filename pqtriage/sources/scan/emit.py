@@ -82,7 +82,7 @@ _USE_SPECS = {spec.name: spec for spec in USE_FIELDS}
 
 
 def conform_use(use: dict[str, Any]) -> dict[str, Any]:
-    """A use that the inventory reader accepts whatever the material held (issue 16: a scan
+    """A use that the inventory reader accepts whatever the material held (a scan
     never writes an inventory that ``triage`` refuses whole).
 
     Per item: an empty text field is left out (an empty algorithm becomes ``unknown``, so the

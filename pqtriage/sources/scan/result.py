@@ -136,7 +136,7 @@ def finish_inventory(
 
 
 def check_readable(text: str, uses: int) -> None:
-    """Refuse to hand back an inventory that ``triage`` would refuse whole (issue 16).
+    """Refuse to hand back an inventory that ``triage`` would refuse whole.
 
     The reader takes at most 16 MiB and 1,000,000 values (pqtriage.yamlio); every value of
     the block YAML (and of the indented JSON) is on a line of its own, so counting lines
