@@ -67,7 +67,11 @@ def quoted(text: object, limit: int = QUOTED_LIMIT) -> str:
     """``'text'`` for a message, cut to ``limit`` characters with an ellipsis."""
     value = str(text)
     if len(value) > limit:
-        value = value[: limit - 1] + "…"
+        cut = value[: limit - 1]
+        space = cut.rfind(" ")
+        if space >= limit * 3 // 4:  # end at a word when one ends near the limit
+            cut = cut[:space]
+        value = cut.rstrip() + "…"
     return f"'{value}'"
 
 

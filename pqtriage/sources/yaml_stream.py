@@ -49,6 +49,11 @@ def _escape(char: str) -> str:
     return f"\\U{code:08x}"
 
 
+def _selector(char: str) -> bool:
+    """Variation selectors (VS1-16 and VS17-256): they draw nothing."""
+    return 0xFE00 <= ord(char) <= 0xFE0F or 0xE0100 <= ord(char) <= 0xE01EF
+
+
 def quote(text: str) -> str:
     """A YAML scalar for a string: plain when safe, else double-quoted with escapes."""
     if not text.isascii():
@@ -61,7 +66,8 @@ def quote(text: str) -> str:
     body = _NEEDS_ESCAPE.sub(lambda m: _escape(m.group(0)), text)
     if not body.isascii():
         body = "".join(
-            _escape(c) if not c.isascii() and unicodedata.category(c) in _HIDDEN else c for c in body
+            _escape(c) if not c.isascii() and (unicodedata.category(c) in _HIDDEN or _selector(c)) else c
+            for c in body
         )
     return f'"{body}"'
 
