@@ -18,7 +18,8 @@ sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
 from bench.common import ROOT, child_env, machine_info
 
-SCRIPTS = ("bench_triage.py", "bench_report.py", "bench_scan.py", "bench_cold_start.py", "bench_probe.py")
+SCRIPTS = ("bench_triage.py", "bench_report.py", "bench_scan.py", "bench_cold_start.py", "bench_probe.py",
+           "bench_scheduler.py")
 """One script per figure, in the order of the issue."""
 
 FIXES = {
@@ -31,6 +32,8 @@ FIXES = {
                         "read names and extensions lazily only for what the output needs, and write "
                         "JSON without indentation (the indented encoder is pure Python)",
     "Cold start": "move the imports named above from module level into the commands that use them",
+    "Scheduler on chains": "look for a step that visits every quarter or every waiting system; the "
+                           "scheduler must stay event-driven (pqtriage/plan/scheduler.py)",
     "TLS probe concurrency": "raise the worker count or make the probe's timeouts per connection, not global",
 }
 """What would fix a miss, per figure (written beside its profile)."""

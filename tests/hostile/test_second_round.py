@@ -260,8 +260,9 @@ def test_scan_output_of_an_undecodable_file_name_triages(tmp_path: Path) -> None
     folder = tmp_path / "certs"
     folder.mkdir()
     os.makedirs(os.fsencode(folder) + b"/bad-\xff-name", exist_ok=True)
-    from tests.sources import material as m
     from cryptography.hazmat.primitives.asymmetric import ec
+
+    from tests.sources import material as m
 
     pem = m.cert_pem(m.certificate(m.ec_key(ec.SECP256R1()), "web.example.test"))
     with open(os.fsencode(folder) + b"/bad-\xff-name/web\xfe.pem", "wb") as stream:
@@ -287,7 +288,9 @@ def test_probe_summary_shows_an_ssh_banner_with_escapes() -> None:
 
 
 def test_plan_views_show_bidi_zero_width_and_tag_characters_as_escapes(tmp_path: Path) -> None:
-    from pqtriage.sources.yaml_stream import quote  # YAML 1.1 escapes (json.dumps writes surrogate pairs)
+    from pqtriage.sources.yaml_stream import (
+        quote,  # YAML 1.1 escapes (json.dumps writes surrogate pairs)
+    )
 
     text = VALID.replace("name: Alpha service", f"name: {quote('Alpha' + HIDDEN + 'service')}")
     path = inventory(tmp_path, text)
@@ -344,8 +347,9 @@ def test_plain_ascii_ids_that_share_a_skeleton_are_not_refused(tmp_path: Path) -
 
 
 def test_a_folder_nested_990_deep_is_walked(tmp_path: Path, startup: float) -> None:
-    from tests.sources import material as m
     from cryptography.hazmat.primitives.asymmetric import ec
+
+    from tests.sources import material as m
 
     deep = tmp_path / "top"
     relative = os.path.join(*["d"] * 990)
@@ -445,8 +449,9 @@ def _big_rsa_certificate() -> bytes:
 
 
 def test_a_100000_bit_rsa_key_is_one_unassessed_use(tmp_path: Path, startup: float) -> None:
-    from tests.sources import material as m
     from cryptography.hazmat.primitives.asymmetric import ec
+
+    from tests.sources import material as m
 
     folder = tmp_path / "certs"
     folder.mkdir()
@@ -465,8 +470,9 @@ def test_a_100000_bit_rsa_key_is_one_unassessed_use(tmp_path: Path, startup: flo
 
 
 def test_one_pem_of_39000_certificates_gives_an_inventory_that_triages(tmp_path: Path, startup: float) -> None:
-    from tests.sources import material as m
     from cryptography.hazmat.primitives.asymmetric import ed25519
+
+    from tests.sources import material as m
 
     folder = tmp_path / "bundle"
     folder.mkdir()
@@ -517,8 +523,9 @@ def test_plan_of_a_cbom_of_20000_applications(tmp_path: Path, startup: float) ->
 
 
 def test_a_pem_of_10000_blocks_scans_like_10000_files(tmp_path: Path) -> None:
-    from tests.sources import material as m
     from cryptography.hazmat.primitives.asymmetric import ec
+
+    from tests.sources import material as m
 
     one = m.cert_pem(m.certificate(m.ec_key(ec.SECP256R1()), "web", dns=("web.example.test",)))
     bundle, files = tmp_path / "bundle", tmp_path / "files"
@@ -552,8 +559,9 @@ def test_a_10_mb_id_is_drawn_cut_and_kept_whole_in_json(tmp_path: Path, startup:
 @pytest.mark.parametrize("serial", [0x00, 0xFF], ids=["zero", "negative"])
 def test_a_certificate_serial_that_is_not_positive_is_a_one_line_note(serial: int, tmp_path: Path) -> None:
     """RFC 5280 section 4.1.2.2: serials are positive; the cryptography library warns on others."""
-    from tests.sources import material as m
     from cryptography.hazmat.primitives.asymmetric import ec
+
+    from tests.sources import material as m
 
     folder = tmp_path / "certs"
     folder.mkdir()
