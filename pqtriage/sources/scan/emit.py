@@ -2,10 +2,16 @@
 
 Values a scan cannot know come from documented defaults and are listed in each system's
 ``assumed``: shelf-life (Mosca's x), migration time (Mosca's y) and exposure.
+
+A signature that rests on a certificate must stay unforgeable at least while the certificate
+is valid: its ``trust_years`` is the certificate's remaining validity at the scan date
+(``--as-of``, default today), for the CA's or signer's own key and for the signature (and its
+hash) on the certificate. The validity dates are kept on the use as facts.
 """
 
 from __future__ import annotations
 
+import datetime as dt
 import json
 import re
 from collections.abc import Mapping
@@ -13,6 +19,7 @@ from typing import Any
 
 import yaml
 
+from pqtriage.model.inventory import IN_USE, Purpose
 from pqtriage.sources.scan.findings import Finding
 from pqtriage.sources.scan.grouping import Group
 
@@ -22,6 +29,10 @@ DEFAULT_MIGRATION_YEARS = 2
 DEFAULT_EXPOSURE = "internal"
 ASSUMED_SYSTEM_FIELDS = ["shelf_life_years", "migration_years", "exposure"]
 DEFAULT_ORGANIZATION = "Scanned inventory"
+MAX_TRUST_YEARS = 100.0
+"""Longest trust period written (the inventory format's limit): a certificate valid "forever"
+(RFC 5280, section 4.1.2.5: notAfter 99991231235959Z) gets this, with a note."""
+_DAYS_PER_YEAR = 365.25
 
 _SLUG = re.compile(r"[^a-z0-9]+")
 
@@ -48,10 +59,6 @@ def use_notes(finding: Finding) -> str | None:
         parts.append(f"subject={finding.subject}")
     if finding.issuer:
         parts.append(f"issuer={finding.issuer}")
-    if finding.not_before:
-        parts.append(f"not_before={finding.not_before}")
-    if finding.not_after:
-        parts.append(f"not_after={finding.not_after}")
     if finding.ca is not None:
         parts.append("CA" if finding.ca else "not CA")
     if finding.key_usage:
@@ -60,8 +67,21 @@ def use_notes(finding: Finding) -> str | None:
     return "; ".join(parts) if parts else None
 
 
-def use_dict(finding: Finding) -> dict[str, Any]:
-    """One use in the inventory format."""
+def remaining_years(not_after: str, as_of: dt.date) -> tuple[float, str]:
+    """Remaining validity in years at ``as_of`` (0 when expired), with the note explaining it."""
+    end = dt.date.fromisoformat(not_after)
+    years = max(0.0, (end - as_of).days / _DAYS_PER_YEAR)
+    if years > MAX_TRUST_YEARS:
+        return MAX_TRUST_YEARS, (
+            f"trust_years: valid until {end.isoformat()}, capped at {MAX_TRUST_YEARS:g} years"
+        )
+    if years == 0:
+        return 0.0, f"trust_years: certificate expired on {end.isoformat()} (before {as_of.isoformat()})"
+    return round(years, 1), f"trust_years: remaining validity on {as_of.isoformat()}"
+
+
+def use_dict(finding: Finding, as_of: dt.date | None = None) -> dict[str, Any]:
+    """One use in the inventory format; ``as_of`` dates the remaining validity of certificates."""
     use: dict[str, Any] = {"purpose": finding.purpose.value, "algorithm": finding.algorithm}
     if finding.key_size is not None:
         use["key_size"] = finding.key_size
@@ -72,6 +92,15 @@ def use_dict(finding: Finding) -> dict[str, Any]:
     if finding.protocol is not None:
         use["protocol"] = finding.protocol
     notes = use_notes(finding)
+    if finding.purpose is Purpose.SIGNATURE and finding.not_after and as_of is not None:
+        use["trust_years"], trust_note = remaining_years(finding.not_after, as_of)
+        notes = f"{notes}; {trust_note}" if notes else trust_note
+    if finding.role != IN_USE:
+        use["role"] = finding.role
+    if finding.not_before:
+        use["not_before"] = finding.not_before
+    if finding.not_after:
+        use["not_after"] = finding.not_after
     if notes:
         use["notes"] = notes
     use["source"] = finding.locator()
@@ -84,8 +113,10 @@ def inventory_dict(
     shelf_life_years: float = DEFAULT_SHELF_LIFE_YEARS,
     migration_years: float = DEFAULT_MIGRATION_YEARS,
     system_extras: Mapping[str, Mapping[str, Any]] | None = None,
+    as_of: dt.date | None = None,
 ) -> dict[str, Any]:
-    """Build the inventory document; ``system_extras`` adds protocol / notes per group key."""
+    """Build the inventory document; ``system_extras`` adds protocol / notes per group key,
+    ``as_of`` is the date certificates' remaining validity is counted from."""
     taken: set[str] = set()
     systems = []
     for group in groups:
@@ -107,7 +138,7 @@ def inventory_dict(
         seen: set[str] = set()
         uses = []
         for finding in group.findings:
-            use = use_dict(finding)
+            use = use_dict(finding, as_of)
             # Sources identify uses (merge relies on it): keep them unique.
             use["source"] = unique_id(use["source"], seen)
             uses.append(use)
