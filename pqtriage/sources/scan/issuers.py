@@ -165,7 +165,7 @@ def link_issuers(findings: list[Finding]) -> list[Finding]:
     for finding in findings:
         if finding.kind is FindingKind.CERTIFICATE_SIGNATURE and finding.certificate is not None:
             finding = _linked(finding, by_key_id, by_name)
-            if SELF_SIGNED in finding.notes[-1:]:
+            if SELF_SIGNED in finding.notes[-1:] and finding.certificate is not None:
                 anchors.add(finding.certificate.tbs_certificate_bytes)
         linked.append(finding)
     return [

@@ -184,19 +184,31 @@ def sshd_missing_reason() -> str | None:
 
 
 @contextmanager
-def sshd_server(folder: Path, extra_config: str = "") -> Iterator[int]:
-    """Debian's OpenSSH server on a loopback port with a fresh host key and a temp config."""
-    host_key = folder / "ssh_host_ed25519_key"
-    subprocess.run(
-        ["ssh-keygen", "-q", "-t", "ed25519", "-N", "", "-f", str(host_key)],
-        check=True,
-        timeout=30,
-    )
+def sshd_server(
+    folder: Path, extra_config: str = "", host_keys: tuple[str, ...] = ("ed25519",)
+) -> Iterator[int]:
+    """Debian's OpenSSH server on a loopback port with fresh host keys and a temp config.
+
+    ``host_keys`` are ssh-keygen types, with a size for RSA: ``ed25519``, ``ecdsa``,
+    ``rsa:3072`` ...
+    """
+    lines = []
+    for spec in host_keys:
+        kind, _, bits = spec.partition(":")
+        host_key = folder / f"ssh_host_{kind}{bits}_key"
+        size = ["-b", bits] if bits else []
+        subprocess.run(
+            ["ssh-keygen", "-q", "-t", kind, *size, "-N", "", "-f", str(host_key)],
+            check=True,
+            timeout=60,
+        )
+        lines.append(f"HostKey {host_key}")
     with closed_port() as port:
         pass
     config = folder / "sshd_config"
+    keys = "\n".join(lines)
     config.write_text(
-        f"Port {port}\nListenAddress 127.0.0.1\nHostKey {host_key}\nPidFile none\n"
+        f"Port {port}\nListenAddress 127.0.0.1\n{keys}\nPidFile none\n"
         f"UsePAM no\nStrictModes no\n{extra_config}\n"
     )
     os.makedirs("/run/sshd", exist_ok=True)
