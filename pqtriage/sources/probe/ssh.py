@@ -31,6 +31,7 @@ from pqtriage.model.inventory import IN_USE, OFFERED, Purpose, SourceRef
 from pqtriage.sources.probe.connect import connect
 from pqtriage.sources.probe.outcome import ProbeFailure, ProbeOutcome
 from pqtriage.sources.probe.ssh_kex import (
+    GROUP_EXCHANGE,
     IMPLEMENTED,
     HostKeyReply,
     KexFailure,
@@ -204,11 +205,25 @@ def _keyscan(target: Target, host_key: str, deadline: float) -> HostKeyReply | s
     return "host key not read: ssh-keyscan returned no key"
 
 
-def _read_more_host_keys(target: Target, deadline: float, lists: list[list[str]],
-                         method: str, wanted: list[str]) -> tuple[list[HostKeyReply], list[str]]:
-    """One more connection per wanted host key algorithm, each read like the first."""
+def _more_reads(offer: ServerOffer, replies: list[HostKeyReply], wanted: str | None,
+                method: str | None) -> list[tuple[str, str]]:
+    """(host key algorithm, exchange) pairs still to run, at most one."""
+    if method is None or wanted is None:
+        return []
+    rsa = [name for name in offer.host_key if name in _RSA_HOST_KEYS]
+    need_rsa = bool(rsa) and not any(r.key.algorithm == "RSA" for r in replies)
+    exchanges = [name for name in offer.kex if name in GROUP_EXCHANGE]
+    need_group = bool(exchanges) and not any(r.group_bits for r in replies)
+    if not need_rsa and not need_group:
+        return []
+    return [(rsa[0] if need_rsa else wanted, exchanges[0] if need_group else method)]
+
+
+def _read_more_host_keys(target: Target, deadline: float,
+                         wanted: list[tuple[str, str]]) -> tuple[list[HostKeyReply], list[str]]:
+    """One more connection per (host key algorithm, exchange), each read like the first."""
     replies, notes = [], []
-    for host_key in wanted:
+    for host_key, method in wanted:
         try:
             sock = connect(target.host, target.port, max(0.1, deadline - time.monotonic()))
         except ProbeFailure as failure:
@@ -263,24 +278,22 @@ def probe_ssh(target: Target, timeout: float) -> ProbeOutcome:
         return ProbeOutcome(target.text, failure=str(failure))
     finally:
         sock.close()
-    # An RSA host key's size is not in its algorithm's name: read it too when RSA is offered
-    # but another key type was read first.
-    rsa_offered = [name for name in offer.host_key if name in _RSA_HOST_KEYS]
-    more_wanted = [wanted] if wanted is not None and method is None else []
-    if rsa_offered and not any(r.key.algorithm == "RSA" for r in replies) and wanted not in rsa_offered:
-        more_wanted.append(rsa_offered[0])
-    if method is not None and more_wanted:
-        more, more_notes = _read_more_host_keys(target, deadline, lists, method, more_wanted)
-        replies += more
+    # Sizes not in the algorithms' names are read too: an RSA host key offered beside the one
+    # read, and the group a group exchange would use (one more exchange covers both).
+    more = _more_reads(offer, replies, wanted, method)
+    if more:
+        found, more_notes = _read_more_host_keys(target, deadline, more)
+        replies += found
         notes += more_notes
-    elif more_wanted:  # no exchange the probe runs: ssh-keyscan, when installed
+    elif method is None:  # no exchange the probe runs: ssh-keyscan, when installed
         read_with = "ssh-keyscan"
-        for host_key in more_wanted:
-            found = _keyscan(target, host_key, deadline)
-            if isinstance(found, HostKeyReply):
-                replies.append(found)
+        rsa_offered = [name for name in offer.host_key if name in _RSA_HOST_KEYS]
+        for host_key in dict.fromkeys([n for n in (wanted, *rsa_offered[:1]) if n]):
+            scanned = _keyscan(target, host_key, deadline)
+            if isinstance(scanned, HostKeyReply):
+                replies.append(scanned)
             else:
-                notes.append(found)
+                notes.append(scanned)
     return describe_kexinit(
         target.text, banner, lists, HostKeys(tuple(replies), tuple(notes), read_with)
     )
@@ -349,15 +362,18 @@ def describe_kexinit(
             key_size = None
             if category == "kex" and name in table.ssh_hybrid_kex:
                 notes.append("hybrid post-quantum")
-            if category == "kex":
+            if category == "kex" and name in GROUP_EXCHANGE:
+                # Both group exchange hashes pick the group the same way (RFC 4419, section 3).
                 for reply in keys.replies:
-                    if reply.method == name and reply.group_bits:
+                    if reply.group_bits:
                         key_size = reply.group_bits
                         exchange = preferences.group_exchange
                         notes.append(
                             f"group of {reply.group_bits} bits chosen by the server for a request of "
-                            f"min {exchange.min}, preferred {exchange.preferred}, max {exchange.max} bits"
+                            f"min {exchange.min}, preferred {exchange.preferred}, max {exchange.max} "
+                            f"bits (read with {reply.method})"
                         )
+                        break
             if category == "hostkey":
                 key_size, host_notes = _host_key_facts(name, keys)
                 notes += host_notes
@@ -374,11 +390,10 @@ def describe_kexinit(
                     role=IN_USE if used else OFFERED,
                 )
             )
-    if keys.notes:
-        findings = [
-            _with_notes(f, keys.notes) if f.kind is FindingKind.SSH_HOST_KEY and f.role == IN_USE
-            else f for f in findings
-        ]  # fmt: skip
+    if keys.notes:  # why a host key was not read: on the host key in use (else on all)
+        host = [f for f in findings if f.kind is FindingKind.SSH_HOST_KEY]
+        chosen = [f for f in host if f.role == IN_USE] or host
+        findings = [_with_notes(f, keys.notes) if f in chosen else f for f in findings]
     return ProbeOutcome(target, tuple(findings), protocol,
                         f"{target}: {banner}: {_summary(negotiated, offer, client.name)}")
 

@@ -42,8 +42,9 @@ _ECDH = {
     "ecdh-sha2-nistp384": ec.SECP384R1,
     "ecdh-sha2-nistp521": ec.SECP521R1,
 }
-_GROUP_EXCHANGE = ("diffie-hellman-group-exchange-sha256", "diffie-hellman-group-exchange-sha1")
-IMPLEMENTED = (*_ECDH, *_GROUP_EXCHANGE)
+GROUP_EXCHANGE = ("diffie-hellman-group-exchange-sha256", "diffie-hellman-group-exchange-sha1")
+"""Group exchange methods (RFC 4419): the server picks the group's size at connection time."""
+IMPLEMENTED = (*_ECDH, *GROUP_EXCHANGE)
 """Key exchange methods the probe can run itself."""
 
 
@@ -159,7 +160,7 @@ def run_exchange(
             )
         send(bytes([SSH_MSG_KEX_INIT]) + string(public))
         return _reply(_next(receive), SSH_MSG_KEX_REPLY, method, None)
-    if method in _GROUP_EXCHANGE:
+    if method in GROUP_EXCHANGE:
         send(bytes([SSH_MSG_KEX_DH_GEX_REQUEST]) + b"".join(n.to_bytes(4, "big") for n in group_request))
         group = _next(receive)
         if group[0] != SSH_MSG_KEX_REPLY:
