@@ -16,7 +16,9 @@ import time
 from collections.abc import Callable, Iterator
 from contextlib import contextmanager
 from pathlib import Path
+from typing import Any
 
+from cryptography import x509
 from cryptography.hazmat.primitives.asymmetric import ec
 from OpenSSL import SSL
 
@@ -105,6 +107,55 @@ def pyopenssl_server(folder: Path) -> Iterator[int]:
         tls.set_accept_state()
         tls.do_handshake()
         tls.shutdown()
+
+    with _serve(handle) as port:
+        yield port
+
+
+@contextmanager
+def tls_server(
+    folder: Path,
+    chain: list[x509.Certificate],
+    key: Any,
+    ciphers: str | None = None,
+    tls12_only: bool = False,
+    pyopenssl: bool = False,
+) -> Iterator[int]:
+    """A TLS server that sends ``chain`` (leaf first) with ``key``.
+
+    Python's ssl module (the system OpenSSL) or pyOpenSSL (the cryptography library's); the
+    security level is lowered to 0 so that legacy material (RSA-1024, SHA-1 and MD5 signed
+    chains, RSA key transport) is served as old servers still do.
+    """
+    folder.mkdir(parents=True, exist_ok=True)
+    chain_file = m.write(folder / "chain.pem", b"".join(m.cert_pem(c) for c in chain))
+    key_file = m.write(folder / "key.pem", m.private_pem(key))
+    suites = f"{ciphers or 'DEFAULT'}:@SECLEVEL=0"
+    if pyopenssl:
+        context = SSL.Context(SSL.TLS_SERVER_METHOD)
+        context.set_cipher_list(suites.encode())
+        if tls12_only:
+            context.set_max_proto_version(SSL.TLS1_2_VERSION)
+        context.use_certificate_chain_file(str(chain_file))
+        context.use_privatekey_file(str(key_file))
+
+        def handle(conn: socket.socket) -> None:
+            conn.setblocking(True)
+            tls = SSL.Connection(context, conn)
+            tls.set_accept_state()
+            tls.do_handshake()
+            tls.shutdown()
+
+    else:
+        py_context = ssl.SSLContext(ssl.PROTOCOL_TLS_SERVER)
+        py_context.set_ciphers(suites)
+        if tls12_only:
+            py_context.maximum_version = ssl.TLSVersion.TLSv1_2
+        py_context.load_cert_chain(chain_file, key_file)
+
+        def handle(conn: socket.socket) -> None:
+            with py_context.wrap_socket(conn, server_side=True) as tls:
+                tls.recv(1)
 
     with _serve(handle) as port:
         yield port
