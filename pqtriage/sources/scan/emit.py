@@ -20,6 +20,7 @@ from typing import Any
 import yaml
 
 from pqtriage.model.inventory import IN_USE, Purpose
+from pqtriage.model.validity import MAX_YEARS, remaining_years
 from pqtriage.sources.scan.findings import Finding
 from pqtriage.sources.scan.grouping import Group
 
@@ -29,10 +30,6 @@ DEFAULT_MIGRATION_YEARS = 2
 DEFAULT_EXPOSURE = "internal"
 ASSUMED_SYSTEM_FIELDS = ["shelf_life_years", "migration_years", "exposure"]
 DEFAULT_ORGANIZATION = "Scanned inventory"
-MAX_TRUST_YEARS = 100.0
-"""Longest trust period written (the inventory format's limit): a certificate valid "forever"
-(RFC 5280, section 4.1.2.5: notAfter 99991231235959Z) gets this, with a note."""
-_DAYS_PER_YEAR = 365.25
 
 _SLUG = re.compile(r"[^a-z0-9]+")
 
@@ -67,17 +64,16 @@ def use_notes(finding: Finding) -> str | None:
     return "; ".join(parts) if parts else None
 
 
-def remaining_years(not_after: str, as_of: dt.date) -> tuple[float, str]:
-    """Remaining validity in years at ``as_of`` (0 when expired), with the note explaining it."""
+def trust_from_validity(not_after: str, as_of: dt.date) -> tuple[float, str]:
+    """Remaining validity in years at ``as_of`` (0 when expired, capped at 100), with the note
+    explaining it (the pure core's rule, :func:`pqtriage.model.validity.remaining_years`)."""
     end = dt.date.fromisoformat(not_after)
-    years = max(0.0, (end - as_of).days / _DAYS_PER_YEAR)
-    if years > MAX_TRUST_YEARS:
-        return MAX_TRUST_YEARS, (
-            f"trust_years: valid until {end.isoformat()}, capped at {MAX_TRUST_YEARS:g} years"
-        )
+    years = remaining_years(end, as_of)
+    if years >= MAX_YEARS:
+        return years, f"trust_years: valid until {end.isoformat()}, capped at {MAX_YEARS:g} years"
     if years == 0:
         return 0.0, f"trust_years: certificate expired on {end.isoformat()} (before {as_of.isoformat()})"
-    return round(years, 1), f"trust_years: remaining validity on {as_of.isoformat()}"
+    return years, f"trust_years: remaining validity on {as_of.isoformat()}"
 
 
 def use_dict(finding: Finding, as_of: dt.date | None = None) -> dict[str, Any]:
@@ -93,7 +89,7 @@ def use_dict(finding: Finding, as_of: dt.date | None = None) -> dict[str, Any]:
         use["protocol"] = finding.protocol
     notes = use_notes(finding)
     if finding.purpose is Purpose.SIGNATURE and finding.not_after and as_of is not None:
-        use["trust_years"], trust_note = remaining_years(finding.not_after, as_of)
+        use["trust_years"], trust_note = trust_from_validity(finding.not_after, as_of)
         notes = f"{notes}; {trust_note}" if notes else trust_note
     if finding.role != IN_USE:
         use["role"] = finding.role

@@ -200,7 +200,7 @@ def test_each_root_of_a_trust_store_has_its_own_remaining_validity(tmp_path: Pat
     text, uses = _scan(tmp_path / "store")
     trust = {block: uses[f"ca-certificates.crt#block{block}.signature"]["trust_years"]
              for block in ends}
-    expected = {block: max(0.0, round((dt.date(year, 1, 1) - AS_OF).days / 365.25, 1))
+    expected = {block: max(0.0, round((dt.date(year, 1, 1) - AS_OF).days / 365.25, 2))
                 for block, year in ends.items()}
     assert trust == expected
     assert trust[6] == 0.0
