@@ -131,6 +131,13 @@ class Band:
         """Whether ``value`` lies in the band (ends included)."""
         return self.low <= value <= self.high
 
+    def enclosing(self, value: float, tolerance: float = 1e-9) -> Band:
+        """The band with an end moved onto ``value`` when it misses it by float rounding only
+        (the central value and the samples are computed along different float paths)."""
+        low = value if value < self.low <= value + tolerance else self.low
+        high = value if value - tolerance <= self.high < value else self.high
+        return Band(low, high)
+
 
 @dataclass(frozen=True)
 class UseBand:

@@ -100,7 +100,14 @@ def _with_band(item: UseAssessment, system: System, band: BandSource, now: float
         base, _ = x_years(item.use, system)
         x = next((part_x for part, _, part_x in evaluation_parts(item.use, system, item.spec, base)
                   if part is item.deciding), x)
-    return replace(item, band=band.use_band(spec, x, item.y_years, now))  # type: ignore[arg-type]
+    found = band.use_band(spec, x, item.y_years, now)
+    if item.exposure_probability is not None and item.crqc_year is not None:
+        found = replace(  # type: ignore[type-var]
+            found,
+            exposure_probability=found.exposure_probability.enclosing(item.exposure_probability),  # type: ignore[attr-defined]
+            crqc_year=found.crqc_year.enclosing(item.crqc_year),  # type: ignore[attr-defined]
+        )
+    return replace(item, band=found)  # type: ignore[arg-type]
 
 
 def use_sort_key(item: UseAssessment) -> tuple:

@@ -433,8 +433,9 @@ def _method(row: Any, index: int) -> ShorMethod:
         logical_table_source=" ".join(str(row.get("logical_table_source") or "").split()),
         physical_table=_physical_table(row.get("physical_table"), where),
         physical_table_source=" ".join(str(row.get("physical_table_source") or "").split()),
-        per_key_amortised_toffoli=amortised.get("toffoli"),
-        amortisation_factor=amortised.get("amortisation_factor"),
+        per_key_amortised_toffoli=float(amortised["toffoli"]) if "toffoli" in amortised else None,
+        amortisation_factor=float(amortised["amortisation_factor"])
+        if "amortisation_factor" in amortised else None,
     )
 
 

@@ -137,8 +137,17 @@ def logical_costs(method: ShorMethod, variant: str, bits: int, strength: int | N
 
 
 def _row_strength(rows: tuple, n: float, strength: int | None) -> int | None:
+    """The strength the formula uses at n: a row's own; beyond the rows never below the last
+    row's (nor above the first row's below them), so the anchored formula cannot drop."""
     exact = next((r.strength for r in rows if r.bits == n), None)
-    return exact if exact is not None else strength
+    if exact is not None:
+        return int(exact)
+    first, last = rows[0], rows[-1]
+    if n > last.bits and last.strength is not None:
+        return max(strength or 0, last.strength)
+    if n < first.bits and first.strength is not None:
+        return min(strength or first.strength, first.strength)
+    return strength
 
 
 def _read(sizes: list[int], values: list[float], n: int, formula: object) -> Reading:
@@ -180,7 +189,7 @@ def _requirement(
     rows = _physical_rows(method, variant) if own_layer else None
     layout = method.layout if own_layer else None
     model = physical_resources(logical, params, data.surface_code, layout)
-    model_expected = _expected(model)
+    model_expected = _expected(model, params.target_failure)
     if rows is None:
         layer = "its own layout" if layout is not None else "the generic surface-code layer"
         working = logical.working + model.working + (f"costed on {layer}",)
@@ -233,8 +242,10 @@ def _non_hardware(params: ThreatParameters) -> dict[str, object]:
     return keep
 
 
-def _expected(physical: PhysicalResources) -> float | None:
-    """Runtime / (1 - failure probability): a failed run is repeated."""
-    if physical.runtime_hours is None or physical.failure_probability is None:
+def _expected(physical: PhysicalResources, target: float = PAPER_HARDWARE.target_failure) -> float | None:
+    """Runtime / (1 - target failure): a failed run is repeated, and the chosen distance keeps
+    the failure under the target. Taken at the target, not at the distance's own failure, so
+    that a larger problem (whose larger distance fails less often) never looks faster."""
+    if physical.runtime_hours is None:
         return None
-    return physical.runtime_hours / (1.0 - physical.failure_probability)
+    return physical.runtime_hours / (1.0 - target)
