@@ -121,8 +121,10 @@ def key_figures(estimate: Estimate) -> list[tuple[str, str]]:
             ("code distance", _count(estimate.code_distance)),
             ("physical qubits", _physical(estimate.physical_qubits)),
             ("runtime per run", compact_hours(estimate.runtime_hours)),
-            ("expected runtime", compact_hours(estimate.expected_runtime_hours) + " (retries included)"),
         ]
+        if estimate.expected_runtime_hours is not None:
+            rows.append(("expected runtime",
+                         compact_hours(estimate.expected_runtime_hours) + " (retries included)"))
     if estimate.attack == "grover":
         rows += [
             ("Grover iterations", _log2(estimate.grover_iterations_log2)),
