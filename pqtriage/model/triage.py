@@ -88,7 +88,8 @@ class BandSource(Protocol):
 _BANDED = (Verdict.EXPOSED, Verdict.WITHIN_MARGIN, Verdict.QUANTUM_RESISTANT)
 
 
-def _with_band(item: UseAssessment, system: System, band: BandSource, now: float) -> UseAssessment:
+def _with_band(item: UseAssessment, system: System, band: BandSource, now: float,
+               memo: dict[tuple[object, ...], object]) -> UseAssessment:
     """The use with the band of the part that decides it (quantum-attackable uses only)."""
     spec = item.deciding or item.spec
     if item.spec is None or spec is None or item.verdict not in _BANDED:
@@ -100,13 +101,17 @@ def _with_band(item: UseAssessment, system: System, band: BandSource, now: float
         base, _ = x_years(item.use, system)
         x = next((part_x for part, _, part_x in evaluation_parts(item.use, system, item.spec, base)
                   if part is item.deciding), x)
-    found = band.use_band(spec, x, item.y_years, now)
-    if item.exposure_probability is not None and item.crqc_year is not None:
-        found = replace(  # type: ignore[type-var]
-            found,
-            exposure_probability=found.exposure_probability.enclosing(item.exposure_probability),  # type: ignore[attr-defined]
-            crqc_year=found.crqc_year.enclosing(item.crqc_year),  # type: ignore[attr-defined]
-        )
+    key = (id(spec), x, item.y_years, item.exposure_probability, item.crqc_year)
+    found = memo.get(key)
+    if found is None:
+        found = band.use_band(spec, x, item.y_years, now)
+        if item.exposure_probability is not None and item.crqc_year is not None:
+            found = replace(  # type: ignore[type-var]
+                found,
+                exposure_probability=found.exposure_probability.enclosing(item.exposure_probability),  # type: ignore[attr-defined]
+                crqc_year=found.crqc_year.enclosing(item.crqc_year),  # type: ignore[attr-defined]
+            )
+        memo[key] = found
     return replace(item, band=found)  # type: ignore[arg-type]
 
 
@@ -211,13 +216,14 @@ def triage(
     explain = getattr(arrival, "explain", None)
     remembered = _RememberedArrival(arrival)
     now = decimal_year(as_of)
+    memo: dict[tuple[object, ...], object] = {}  # specs stay alive in the catalog cache
     for system in inventory.systems:
         uses = tuple(
             evaluate_use(use, system, _resolve(catalog, use, cache), profile, remembered, as_of)
             for use in system.uses
         )
         if band is not None:
-            uses = tuple(_with_band(u, system, band, now) for u in uses)
+            uses = tuple(_with_band(u, system, band, now, memo) for u in uses)
         for use in uses:
             spec = use.deciding or use.spec
             if spec is not None and use.crqc_year is not None and spec.name not in arrivals:
