@@ -183,9 +183,8 @@ def load_review(path: str, profile: str | None, as_of: Any, cbom_defaults: str |
                 raise InventoryError(str(exc), place=Place(path),
                                      hint="give a file written by 'pqtriage triage --format json'") from exc
     from pqtriage.catalog import load_catalog
-    from pqtriage.sources.profile_file import load_profile
-
     from pqtriage.sources.hardware_file import load_hardware
+    from pqtriage.sources.profile_file import load_profile
 
     inventory = load_any(path, cbom_defaults)
     threat = load_profile(profile)

@@ -95,8 +95,8 @@ def estimate(
     import datetime as dt
 
     from pqtriage.catalog import load_catalog
-    from pqtriage.model.profile import decimal_year
     from pqtriage.model.band import make_design
+    from pqtriage.model.profile import decimal_year
     from pqtriage.sources.hardware_file import load_hardware
     from pqtriage.sources.profile_file import load_profile
 

@@ -10,9 +10,8 @@ how many years later (positive) or earlier (negative) that algorithm falls;
 from __future__ import annotations
 
 import math
-from typing import Protocol
-
 from collections.abc import Sequence
+from typing import Protocol
 
 from pqtriage.catalog.spec import AlgorithmSpec
 

@@ -5,7 +5,6 @@ from __future__ import annotations
 import datetime as dt
 from dataclasses import dataclass
 from enum import Enum
-
 from typing import TYPE_CHECKING
 
 from pqtriage.catalog.spec import AlgorithmSpec

@@ -63,6 +63,8 @@ def _parse(data: bytes, path: str) -> dict[str, Node]:
 
 def _value(path: str, name: str, node: Node, default: HardwareValue | None) -> HardwareValue:
     low_limit, high_limit = _RANGES[name]
+    low: float | None
+    high: float | None
     if not isinstance(node.value, dict):
         value = _number(path, node, name, low_limit, high_limit)
         if default is not None and default.low is not None and default.high is not None:

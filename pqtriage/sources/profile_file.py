@@ -144,7 +144,7 @@ def parse_profile(data: bytes, path: str) -> ThreatProfile:
         keys = set(entry or ())
         single = {"within_years", "probability"}
         double = {"within_years", "optimistic", "pessimistic"}
-        if entry is None or not (keys - {"flag"} in (single, double)):
+        if entry is None or keys - {"flag"} not in (single, double):
             raise _fail(path, item, "each arrival entry needs 'within_years' and either 'probability' "
                         "or both 'optimistic' and 'pessimistic' (and may have 'flag')")
         has_band = "optimistic" in keys

@@ -198,7 +198,10 @@ def _requirement(
     sizes = [r.bits for r in rows]
     label = f"the {variant} table of arXiv:{method.id} ({rows[0].commit}, {rows[0].verified})"
 
-    def generic(n: float, hardware: ThreatParameters = PAPER_HARDWARE) -> PhysicalResources:
+    paper = replace(params, physical_error_rate=PAPER_HARDWARE.physical_error_rate,
+                    cycle_us=PAPER_HARDWARE.cycle_us, reaction_us=PAPER_HARDWARE.reaction_us)
+
+    def generic(n: float, hardware: ThreatParameters = paper) -> PhysicalResources:
         return physical_resources(logical_costs(method, variant, max(2, round(n)), strength),
                                   hardware, data.surface_code, None)
 
@@ -208,38 +211,31 @@ def _requirement(
                     lambda n: generic(n).runtime_hours or math.inf)
     expected = _read(sizes, [r.expected_hours for r in rows], bits,
                      lambda n: _expected(generic(n)) or math.inf)
-    working = list(logical.working)
-    working += [
+    steps = list(logical.working)
+    steps += [
         qubits.describe("physical qubits per run", label),
         per_run.describe("hours per run", label),
         expected.describe("expected hours (hours per run / (1 - retry risk))", label),
     ]
-    physical, hours, expected_hours = qubits.value, per_run.value, expected.value
-    if params != replace(PAPER_HARDWARE, **_non_hardware(params)):
+    physical: float | None = qubits.value
+    hours: float | None = per_run.value
+    expected_hours: float | None = expected.value
+    if not params.matches_1905_09749:
         # Other hardware: the model's hardware dependence, at the table's level.
         here, there = model, generic(bits)
         if here.physical_qubits and there.physical_qubits and here.runtime_hours and there.runtime_hours:
             q_ratio = here.physical_qubits / there.physical_qubits
             t_ratio = here.runtime_hours / there.runtime_hours
-            physical, hours, expected_hours = physical * q_ratio, hours * t_ratio, expected_hours * t_ratio
-            working.append(
+            physical, hours, expected_hours = qubits.value * q_ratio, per_run.value * t_ratio, expected.value * t_ratio
+            steps.append(
                 f"hardware differs from the paper's (p = 1e-3, 1 us, 10 us): qubits x{q_ratio:.3g} and "
                 f"time x{t_ratio:.3g}, the surface-code model's ratio between the two"
             )
         else:
-            physical = hours = expected_hours = None  # type: ignore[assignment]
-            working.append("no code distance suffices on this hardware")
+            physical = hours = expected_hours = None
+            steps.append("no code distance suffices on this hardware")
     return Requirement(method.id, variant, bits, logical, True, physical, hours, expected_hours,
-                       model, tuple(working))
-
-
-def _non_hardware(params: ThreatParameters) -> dict[str, object]:
-    """Every parameter except the three hardware ones, to compare hardware only."""
-    keep = {}
-    for name in ThreatParameters.__dataclass_fields__:
-        if name not in ("physical_error_rate", "cycle_us", "reaction_us"):
-            keep[name] = getattr(params, name)
-    return keep
+                       model, tuple(steps))
 
 
 def _expected(physical: PhysicalResources, target: float = PAPER_HARDWARE.target_failure) -> float | None:

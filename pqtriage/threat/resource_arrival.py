@@ -29,7 +29,13 @@ from pqtriage.catalog.spec import AlgorithmSpec
 from pqtriage.threat.grover import grover_resources
 from pqtriage.threat.methods import MethodData, ShorMethod, load_method_data
 from pqtriage.threat.parameters import ThreatParameters
-from pqtriage.threat.requirement import Requirement, family_of, has_own_layer, requirement, variant_of
+from pqtriage.threat.requirement import (
+    Requirement,
+    family_of,
+    has_own_layer,
+    requirement,
+    variant_of,
+)
 from pqtriage.threat.shor import select_method
 from pqtriage.threat.surface_code import block_tiles, distance_for_volume, qubits_per_tile
 

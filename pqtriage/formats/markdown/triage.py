@@ -6,7 +6,6 @@ import math
 from collections.abc import Sequence
 
 from pqtriage import __version__
-from pqtriage.formats.interface import ResultFormat
 from pqtriage.formats.bands import (
     BAND_NOTE,
     probability_range,
@@ -14,6 +13,7 @@ from pqtriage.formats.bands import (
     system_band,
     year_range,
 )
+from pqtriage.formats.interface import ResultFormat
 from pqtriage.formats.labels import VERDICT_LABEL, short_replacement
 from pqtriage.formats.notes import CAUTIONS, SOURCES, assumptions, fmt_year
 from pqtriage.formats.text import markdown_code, markdown_text
