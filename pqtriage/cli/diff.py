@@ -5,6 +5,7 @@ from __future__ import annotations
 import typer
 
 from pqtriage.cli.common import (
+    HARDWARE_HELP,
     OUTPUT_HELP,
     DiffFormat,
     check_outputs,
@@ -24,16 +25,17 @@ def diff(
     profile: str | None = typer.Option(None, "--profile", help="Threat profile for inventories (not for JSON results)."),
     as_of: str | None = typer.Option(None, "--as-of", help="Date treated as today for inventories (YYYY-MM-DD)."),
     cbom_defaults: str | None = typer.Option(None, "--cbom-defaults", help="CBOM side file (shelf-life, migration time) for CycloneDX inputs."),
+    hardware: str | None = typer.Option(None, "--hardware", help=HARDWARE_HELP),
 ) -> None:
     """Compare two reviews: systems migrated, improved, worsened, new and removed."""
     from pqtriage.model.diff import compare
     from pqtriage.pipeline import load_review, parse_as_of
 
-    inputs = [old, new, profile_input(profile), cbom_defaults]
+    inputs = [old, new, profile_input(profile), cbom_defaults, hardware]
     check_outputs(output, inputs)
     date = parse_as_of(as_of)
-    result = compare(load_review(old, profile, date, cbom_defaults),
-                     load_review(new, profile, date, cbom_defaults))
+    result = compare(load_review(old, profile, date, cbom_defaults, hardware),
+                     load_review(new, profile, date, cbom_defaults, hardware))
     if output_format is DiffFormat.markdown:
         from pqtriage.formats.markdown.diff import markdown_section
 

@@ -13,6 +13,7 @@ import typer
 
 from pqtriage.cli.common import (
     CAPACITY_HELP,
+    HARDWARE_HELP,
     OUTPUT_HELP,
     POLICY_HELP,
     PlanFormat,
@@ -110,6 +111,7 @@ def plan(
     as_of: Optional[str] = typer.Option(None, "--as-of", help="Date treated as today (YYYY-MM-DD)."),
     sensitivity: bool = typer.Option(False, "--sensitivity", help="Also show which systems change verdict if the CRQC moves -5..+5 years."),
     cbom_defaults: Optional[str] = typer.Option(None, "--cbom-defaults", help="For a CycloneDX input: YAML side file with values a CBOM cannot carry."),
+    hardware: Optional[str] = typer.Option(None, "--hardware", help=HARDWARE_HELP),
 ) -> None:
     """Plan the migration: deadlines per system, schedule under capacity, critical path."""
     from pathlib import Path
@@ -117,10 +119,10 @@ def plan(
     from pqtriage.cli.output import write_atomic
     from pqtriage.pipeline import parse_as_of, prepare
 
-    inputs = [inventory, profile_input(profile), cbom_defaults]
+    inputs = [inventory, profile_input(profile), cbom_defaults, hardware]
     chart = chart_path_for(output) if output_format == PlanFormat.markdown and to_file(output) and output else None
     check_outputs(output, inputs, chart)
-    run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults)
+    run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults, hardware)
     the_plan = run.plan(tuple(policy or ()), capacity)
     if output_format == PlanFormat.table:
         from rich.console import Group
@@ -129,9 +131,13 @@ def plan(
 
         view = plan_view(the_plan, period.value)
         if sensitivity:
-            from pqtriage.formats.table.sensitivity import sensitivity_table
+            from pqtriage.formats.table.sensitivity import band_table, sensitivity_table
 
-            view = Group(view, sensitivity_table(run.sensitivity()))
+            moved = run.sensitivity()
+            parts = [view, sensitivity_table(moved)]
+            if moved.band_checked:
+                parts.append(band_table(moved))
+            view = Group(*parts)
         if to_file(output):
             emit(plain_text(view), output, inputs)
         else:

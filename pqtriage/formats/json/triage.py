@@ -7,6 +7,7 @@ import math
 from typing import Any
 
 from pqtriage import __version__
+from pqtriage.formats.bands import band_dict, system_band
 from pqtriage.formats.interface import ResultFormat
 from pqtriage.formats.notes import CAUTIONS, SOURCES, assumptions
 from pqtriage.model.inventory import SourceRef
@@ -36,9 +37,13 @@ def use_dict(item: UseAssessment) -> dict[str, Any]:
         "resolved": item.spec.name if item.spec else None,
         "deciding_component": item.deciding.name if item.deciding else None,
         "purpose": item.use.purpose.value,
+        "role": item.use.role,
         "key_size": item.use.key_size,
         "curve": item.use.curve,
         "parameter_set": item.use.parameter_set,
+        "trust_years": item.use.trust_years,
+        "not_before": item.use.not_before.isoformat() if item.use.not_before else None,
+        "not_after": item.use.not_after.isoformat() if item.use.not_after else None,
         "classical_bits": spec.classical_bits if spec else None,
         "classical_status": spec.classical_status if spec else None,
         "quantum_attack": spec.quantum_attack if spec else None,
@@ -53,6 +58,7 @@ def use_dict(item: UseAssessment) -> dict[str, Any]:
         "crqc_year": _number(item.crqc_year, 2),
         "beyond_horizon": item.crqc_year is not None and math.isinf(item.crqc_year),
         "arrival_shift_years": _number(item.shift_years, 2),
+        "band": band_dict(item.band),
         "reason": item.reason,
         "suggestions": list(item.suggestions),
         "assumptions": list(item.assumptions),
@@ -71,6 +77,7 @@ def system_dict(item: SystemAssessment) -> dict[str, Any]:
         "exposure_probability": _number(item.exposure_probability),
         "margin_years": _number(item.margin_years, 2),
         "start_by": item.start_by.isoformat() if item.start_by else None,
+        "band": band_dict(system_band(item)),
         "reason": item.reason,
         "shelf_life_years": system.shelf_life_years,
         "migration_years": system.migration_years,
@@ -107,6 +114,16 @@ def result_dict(result: TriageResult, with_items: bool = True) -> dict[str, Any]
             "caveat": profile.caveat,
         },
         "arrival_model": result.arrival_model,
+        "uncertainty": None if result.band is None else {
+            "description": result.band.describe(),
+            "samples": result.band.samples,
+            "seed": result.band.seed,
+            "percentiles": [10, 90],
+            "survey": result.band.survey,
+            "doubling_years": list(result.band.doubling),
+            "methods": list(result.band.methods),
+            "ranking_uses": "central value",
+        },
         "summary": {
             "systems": summary.systems,
             "uses": summary.uses,
