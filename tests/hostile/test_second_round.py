@@ -470,14 +470,23 @@ def test_a_100000_bit_rsa_key_is_one_unassessed_use(tmp_path: Path, startup: flo
 
 
 def test_one_pem_of_39000_certificates_gives_an_inventory_that_triages(tmp_path: Path, startup: float) -> None:
-    from cryptography.hazmat.primitives.asymmetric import ed25519
+    import datetime
 
-    from tests.sources import material as m
+    from cryptography import x509
+    from cryptography.hazmat.primitives import serialization
+    from cryptography.hazmat.primitives.asymmetric import ed25519
+    from cryptography.x509.oid import NameOID
 
     folder = tmp_path / "bundle"
     folder.mkdir()
-    one = m.cert_pem(m.certificate(ed25519.Ed25519PrivateKey.generate(), "a"))
-    (folder / "bundle.pem").write_bytes(one * 39_000)  # 16.7 MB: just under the 16 MiB file limit
+    key = ed25519.Ed25519PrivateKey.generate()
+    name = x509.Name([x509.NameAttribute(NameOID.COMMON_NAME, "a")])
+    now = datetime.datetime(2026, 1, 1, tzinfo=datetime.UTC)
+    cert = (x509.CertificateBuilder().subject_name(name).issuer_name(name).public_key(key.public_key())
+            .serial_number(1).not_valid_before(now).not_valid_after(now + datetime.timedelta(days=90))
+            .sign(key, None))  # the smallest certificate: about 320 bytes of PEM, no extensions
+    one = cert.public_bytes(serialization.Encoding.PEM)
+    (folder / "bundle.pem").write_bytes(one * 39_000)  # 12.6 MB: within the 16 MiB file limit
     out = tmp_path / "scan.yaml"
     scan = run_cli("scan", str(folder), "-o", str(out))
     assert scan.code == 0, scan.stderr
