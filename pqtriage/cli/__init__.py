@@ -19,7 +19,6 @@ except ImportError:  # pragma: no cover - depends on the installed typer
 
 from pqtriage import __version__
 from pqtriage.cli import check, diff, estimate, init, plan, probe, report, scan, schema, triage
-from pqtriage.cli.output import WRITE_ERRNOS, quiet_stdout
 from pqtriage.errors import EXIT_BAD_INPUT, EXIT_INTERNAL, EXIT_OK, PqtriageError
 
 app = typer.Typer(
@@ -98,6 +97,8 @@ def main(argv: Optional[list[str]] = None) -> int:
             raise
         print_error(exc.diagnostics())
         if exc.exit_code == EXIT_INTERNAL:
+            from pqtriage.cli.output import quiet_stdout
+
             quiet_stdout()
         return exc.exit_code
     except typer.Abort:
@@ -109,6 +110,8 @@ def main(argv: Optional[list[str]] = None) -> int:
         print_error(f"{exc.format_message()} (see 'pqtriage --help')")
         return EXIT_BAD_INPUT
     except BrokenPipeError:
+        from pqtriage.cli.output import quiet_stdout
+
         quiet_stdout()
         return EXIT_OK
     except KeyboardInterrupt:
@@ -117,6 +120,8 @@ def main(argv: Optional[list[str]] = None) -> int:
     except OSError as exc:
         if debug:
             raise
+        from pqtriage.cli.output import WRITE_ERRNOS, quiet_stdout
+
         if exc.errno in WRITE_ERRNOS and exc.filename is None:  # stdout or stderr failed
             print_error(f"cannot write the output: {exc.strerror}; check the disk or pipe it goes to")
             quiet_stdout()

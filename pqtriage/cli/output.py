@@ -21,7 +21,6 @@ import errno
 import os
 import stat
 import sys
-import tempfile
 from collections.abc import Iterable
 from pathlib import Path
 
@@ -195,6 +194,8 @@ def write_atomic(path: str | Path, text: str,
     target = output_target(path, inputs)
     folder = target.parent if str(target.parent) else Path(".")
     data = encode_output(text)
+    import tempfile  # here, not at module level: pqtriage --help never writes
+
     try:
         handle, temp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=folder)
     except OSError as exc:
