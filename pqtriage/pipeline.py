@@ -55,10 +55,11 @@ def arrival_model_for(profile: ThreatProfile, as_of: dt.date | None = None) -> A
 
 
 def run_triage(
-    inventory_path: str, profile_name: str | None, as_of: dt.date, cbom_defaults: str | None = None
+    inventory_path: str, profile_name: str | None, as_of: dt.date, cbom_defaults: str | None = None,
+    columns: str | None = None,
 ) -> TriageResult:
     """Load the inventory and profile, then triage."""
-    return prepare(inventory_path, profile_name, as_of, cbom_defaults).result
+    return prepare(inventory_path, profile_name, as_of, cbom_defaults, columns).result
 
 
 @dataclass(frozen=True)
@@ -92,32 +93,62 @@ class TriageRun:
                           parse_capacity(capacity), DEFAULT_SETTINGS)
 
 
-def load_any(inventory_path: str, cbom_defaults: str | None = None) -> Any:
-    """Read a YAML inventory or a CycloneDX CBOM (with its side file of shelf-life and migration time)."""
+def use_check(catalog: Any) -> Any:
+    """The check every inventory read for triage goes through: algorithm and curve names
+    one or two keystrokes from a known one are errors; unknown names far from any are warnings."""
+    from pqtriage.catalog.typos import name_problem
+    from pqtriage.sources.interface import FieldProblem
+
+    found: dict[tuple[Any, ...], list[FieldProblem]] = {}
+
+    def check(use: Any) -> list[FieldProblem]:
+        key = (use.algorithm, use.key_size, use.curve, use.parameter_set, use.purpose.value)
+        known = found.get(key)
+        if known is None:
+            resolution = catalog.resolve(use.algorithm, key_size=use.key_size, curve=use.curve,
+                                         parameter_set=use.parameter_set, purpose=use.purpose.value)
+            problem = name_problem(resolution, use.algorithm, use.curve)
+            known = [] if problem is None else [
+                FieldProblem(problem.field, problem.message, problem.hint, problem.error)]
+            found[key] = known
+        return known
+
+    return check
+
+
+def load_any(inventory_path: str, cbom_defaults: str | None = None, columns: str | None = None,
+             catalog: Any = None) -> Any:
+    """Read an inventory in any format: YAML, CSV, a workbook (with ``--columns``), or a
+    CycloneDX CBOM (with its side file of shelf-life and migration time).
+
+    With a catalog, algorithm and curve names are checked too (see :func:`use_check`), and
+    every problem is reported together.
+    """
+    from pqtriage.sources.loading import load_inventory, load_inventory_with_side_file
+
+    check = use_check(catalog) if catalog is not None else None
     if cbom_defaults is None:
-        from pqtriage.sources.loading import load_inventory
-
-        return load_inventory(inventory_path)
-    from pqtriage.sources.loading import load_inventory_with_side_file
-
-    return load_inventory_with_side_file(inventory_path, cbom_defaults)
+        return load_inventory(inventory_path, check=check, columns=columns)
+    return load_inventory_with_side_file(inventory_path, cbom_defaults, check=check)
 
 
 def prepare(
-    inventory_path: str, profile_name: str | None, as_of: dt.date, cbom_defaults: str | None = None
+    inventory_path: str, profile_name: str | None, as_of: dt.date, cbom_defaults: str | None = None,
+    columns: str | None = None,
 ) -> TriageRun:
     """Load the inventory (with a CBOM side file, if any) and profile, triage, keep the parts."""
     from pqtriage.catalog import load_catalog
     from pqtriage.sources.profile_file import load_profile
 
-    inventory = load_any(inventory_path, cbom_defaults)
-    profile = load_profile(profile_name)
     catalog = load_catalog()
+    inventory = load_any(inventory_path, cbom_defaults, columns, catalog)
+    profile = load_profile(profile_name)
     arrival = arrival_model_for(profile, as_of)
     return TriageRun(triage(inventory, catalog, profile, arrival, as_of), catalog, arrival)
 
 
-def load_review(path: str, profile: str | None, as_of: Any, cbom_defaults: str | None) -> Any:
+def load_review(path: str, profile: str | None, as_of: Any, cbom_defaults: str | None,
+                columns: str | None = None) -> Any:
     """A Review from a JSON result file, or from an inventory (YAML or CycloneDX) triaged now."""
     from pqtriage.errors import InventoryError, Place
     from pqtriage.model.diff import review_of_json, review_of_result
@@ -138,7 +169,8 @@ def load_review(path: str, profile: str | None, as_of: Any, cbom_defaults: str |
     from pqtriage.catalog import load_catalog
     from pqtriage.sources.profile_file import load_profile
 
-    inventory = load_any(path, cbom_defaults)
+    catalog = load_catalog()
+    inventory = load_any(path, cbom_defaults, columns, catalog)
     threat = load_profile(profile)
-    result = triage(inventory, load_catalog(), threat, arrival_model_for(threat, as_of), as_of)
+    result = triage(inventory, catalog, threat, arrival_model_for(threat, as_of), as_of)
     return review_of_result(result, path)

@@ -19,6 +19,8 @@ AS_OF_HELP = "Date treated as today (YYYY-MM-DD), for reproducible reports."
 CBOM_DEFAULTS_HELP = "For a CycloneDX input: YAML side file with shelf-life, migration time and other values a CBOM cannot carry."
 POLICY_HELP = ("Policy timeline to check (repeatable): nist-ir-8547, cnsa2, uk-ncsc, eu-roadmap, au-ism, "
                "ca-roadmap, bsi, nsm-10. Added to those the inventory names.")
+COLUMNS_HELP = ("For a CSV file or a workbook: YAML column map of header names and value spellings "
+                "(see docs/inventory-format.md).")
 CAPACITY_HELP = "Migrations in parallel (3), person-weeks per quarter (40pw), or both (3,40pw)."
 
 

@@ -7,12 +7,18 @@ from hypothesis import strategies as st
 from pqtriage.model.inventory import (
     Criticality,
     CryptoUse,
+    DataClassification,
     Exposure,
+    Hosting,
+    HostingModel,
+    Impact,
     Inventory,
+    KeyStorage,
     Purpose,
     SourceRef,
     System,
 )
+from pqtriage.sources.schema import FIPS_140_LEVELS
 
 ALGORITHMS = ("RSA-2048", "RSA-3072", "ECDSA P-256", "X25519", "ML-KEM-768", "ML-DSA-65", "AES-128-GCM",
               "AES-256-GCM", "SHA-256", "3DES", "Kuznyechik", "TLS_AES_128_GCM_SHA256")
@@ -21,6 +27,13 @@ ALGORITHMS = ("RSA-2048", "RSA-3072", "ECDSA P-256", "X25519", "ML-KEM-768", "ML
 # Any text a person could type: no surrogates (not encodable), no NUL (refused by the reader).
 TEXT = st.text(st.characters(blacklist_categories=["Cs"], blacklist_characters="\x00"),
                min_size=1, max_size=24).filter(lambda s: s.strip() != "")
+# Text YAML 1.1 would read as something else: ids and versions must stay as typed.
+LOOKALIKES = st.sampled_from(["010", "2.10", "true", "no", "1e3", "0x1F", "1:30", "2026-12-02", "~", "null"])
+TEXT_OR_LOOKALIKE = st.one_of(TEXT, LOOKALIKES)
+IDENTIFIERS = st.from_regex(r"\A[a-z0-9][a-z0-9._-]{0,12}\Z")
+EXTRA_KEYS = st.from_regex(r"\A[A-Za-z][A-Za-z0-9_-]{0,12}\Z")
+EXTRA_VALUES = st.one_of(TEXT_OR_LOOKALIKE, st.integers(-10**6, 10**6), st.booleans(),
+                         st.floats(-1e6, 1e6, allow_nan=False).map(lambda v: round(v, 3)))
 YEARS = st.one_of(st.integers(0, 50).map(float), st.floats(0, 50, allow_nan=False).map(lambda v: round(v, 3)))
 
 
@@ -34,6 +47,12 @@ def uses(draw: st.DrawFn) -> CryptoUse:
         curve=draw(st.none() | TEXT),
         trust_years=draw(st.none() | st.integers(0, 100)),
         protocol=draw(st.none() | TEXT),
+        protocol_version=draw(st.none() | TEXT_OR_LOOKALIKE),
+        key_storage=draw(st.none() | st.sampled_from(list(KeyStorage))),
+        crypto_library=draw(st.none() | TEXT),
+        crypto_module=draw(st.none() | TEXT),
+        fips_140_certificate=draw(st.none() | st.from_regex(r"\A#?[0-9]{1,6}\Z")),
+        fips_140_level=draw(st.none() | st.sampled_from(FIPS_140_LEVELS)),
         notes=draw(st.none() | TEXT),
         source=SourceRef("inv.yaml", None, None, draw(st.none() | TEXT)),
     )
@@ -60,6 +79,23 @@ def inventories(draw: st.DrawFn, max_systems: int = 6, text_ids: bool = True) ->
             exposure=draw(st.sampled_from(list(Exposure))),
             criticality=draw(st.sampled_from(list(Criticality))),
             notes=draw(st.none() | TEXT),
+            business_unit=draw(st.none() | TEXT),
+            tags=tuple(draw(st.lists(TEXT_OR_LOOKALIKE, max_size=3))),
+            impact=draw(st.none() | st.sampled_from(list(Impact))),
+            high_value_asset=draw(st.none() | st.booleans()),
+            data_classification=draw(st.none() | st.builds(
+                DataClassification, TEXT_OR_LOOKALIKE, st.none() | st.integers(0, 10))),
+            hosting=draw(st.none() | st.builds(
+                Hosting, st.sampled_from(list(HostingModel)), st.none() | TEXT,
+                st.none() | st.from_regex(r"\A[A-Z]{2}\Z"))),
+            vendor=draw(st.none() | TEXT),
+            product=draw(st.none() | TEXT),
+            version=draw(st.none() | TEXT_OR_LOOKALIKE),
+            crypto_library=draw(st.none() | TEXT),
+            key_storage=draw(st.none() | st.sampled_from(list(KeyStorage))),
+            frameworks=draw(st.none() | st.lists(IDENTIFIERS, max_size=3).map(tuple)),
+            extra=tuple(draw(st.dictionaries(EXTRA_KEYS, EXTRA_VALUES, max_size=3)).items()),
             source=SourceRef("inv.yaml", None, None, draw(st.none() | TEXT)),
         ))
-    return Inventory(organization=draw(TEXT), systems=tuple(systems))
+    frameworks = tuple(draw(st.lists(IDENTIFIERS, max_size=3)))
+    return Inventory(organization=draw(TEXT), systems=tuple(systems), frameworks=frameworks)
