@@ -174,6 +174,7 @@ def cbom_dict(result: TriageResult) -> dict[str, Any]:
             ("organization", result.inventory.organization), ("as_of", result.as_of.isoformat()),
             ("profile", result.profile.name), ("risk_tolerance", result.profile.risk_tolerance),
             ("inventory_sha256", result.inventory.source_sha256),
+            ("view", result.selection.describe() if result.selection else None),
         ] + [(f"count:{verdict.value}", n) for verdict, n in summary.counts.items()]),
     }
     body: dict[str, Any] = {"$schema": SCHEMA_URL, "bomFormat": "CycloneDX", "specVersion": SPEC_VERSION,

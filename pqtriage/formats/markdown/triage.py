@@ -93,9 +93,21 @@ def executive_summary(result: TriageResult) -> list[str]:
 
 
 def ranked_table(result: TriageResult) -> list[str]:
-    """The ranked table, one row per system."""
+    """The ranked table, one row per system (one table per group with --group-by)."""
+    selection = result.selection
+    if selection is None or selection.group_by is None:
+        return _ranked_rows(result, result.items, "## Ranked systems")
+    from pqtriage.model.view import groups
+
+    lines = ["## Ranked systems", ""]
+    for label, items in groups(result, selection.group_by):
+        lines += _ranked_rows(result, items, f"### {md(selection.group_by)}: {md(label)} ({len(items)} systems)")
+    return lines
+
+
+def _ranked_rows(result: TriageResult, items: Sequence[SystemAssessment], heading: str) -> list[str]:
     rows = []
-    for item in result.items:
+    for item in items:
         weakest = item.weakest
         rows.append([
             str(item.rank),
@@ -109,7 +121,7 @@ def ranked_table(result: TriageResult) -> list[str]:
             VERDICT_LABEL[item.verdict],
             md(short_replacement(weakest.replacement if weakest else None)),
         ])
-    lines = ["## Ranked systems", ""]
+    lines = [heading, ""]
     lines += _table(
         ["#", "System", "Weakest use", "Purpose", "x (y)", "y (y)", "Start by", "P(exposed)", "Verdict", "Replace with"],
         rows,
@@ -242,6 +254,9 @@ def render_report(result: TriageResult, extra_sections: Sequence[str] = ()) -> s
     lines.append("")
     lines.append("> **Caution.** " + md(CAUTIONS[0]) + " " + md(CAUTIONS[2]))
     lines.append("")
+    if result.selection is not None:
+        lines.append("> **View.** " + md(result.selection.describe()))
+        lines.append("")
     lines += executive_summary(result)
     lines += ranked_table(result)
     lines += ["## System detail", ""]
