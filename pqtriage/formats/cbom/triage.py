@@ -28,6 +28,13 @@ from pqtriage.catalog.spec import AlgorithmSpec
 from pqtriage.formats.interface import ResultFormat
 from pqtriage.model.inventory import System
 from pqtriage.model.verdict import SystemAssessment, TriageResult, UseAssessment
+from pqtriage.sources.cbom_fields import (
+    certification_level,
+    key_asset,
+    system_component_fields,
+    system_properties,
+    use_properties,
+)
 
 SPEC_VERSION = "1.6"
 SCHEMA_URL = "http://cyclonedx.org/schema/bom-1.6.schema.json"
@@ -69,12 +76,15 @@ def _levels(spec: AlgorithmSpec | None) -> dict[str, Any]:
 
 
 def _algorithm_asset(ref: str, spec: AlgorithmSpec | None, name: str, parameter: str | None,
-                     curve: str | None, properties: list[dict[str, str]]) -> dict[str, Any]:
+                     curve: str | None, properties: list[dict[str, str]],
+                     certification: list[str] | None = None) -> dict[str, Any]:
     algorithm = _levels(spec)
     if parameter:
         algorithm["parameterSetIdentifier"] = parameter
     if curve:
         algorithm["curve"] = curve
+    if certification:
+        algorithm["certificationLevel"] = certification
     crypto: dict[str, Any] = {"assetType": "algorithm", "algorithmProperties": algorithm}
     if spec is not None and spec.identifiers.get("oid"):
         crypto["oid"] = spec.identifiers["oid"]
@@ -97,6 +107,7 @@ def _use_properties(system: System, item: UseAssessment) -> list[dict[str, str]]
         ("quantum_attack", spec.quantum_attack if spec else None),
         ("deciding_component", item.deciding.name if item.deciding else None),
         ("assumed", ",".join(item.use.assumed)),
+        *use_properties(item.use),
     ])
 
 
@@ -104,9 +115,18 @@ def _use_components(system: System, item: UseAssessment, ref: str) -> tuple[list
     use, spec = item.use, item.spec
     parameter = use.parameter_set or (str(use.key_size) if use.key_size else None)
     properties = _use_properties(system, item)
+    certification = certification_level(use, system)
     if spec is None or spec.primitive != "cipher-suite" or not spec.components:
         name = spec.name if spec else use.algorithm
-        return [_algorithm_asset(ref, spec, name, parameter, use.curve, properties)], []
+        if use.key_storage is None:
+            return [_algorithm_asset(ref, spec, name, parameter, use.curve, properties, certification)], []
+        # Where the key is kept is a key's securedBy: the key asset carries the use, its
+        # algorithmRef the algorithm (whose purpose and trust years the import reads).
+        algorithm_ref = f"{ref}.alg"
+        inner = _properties([("purpose", use.purpose.value), ("trust_years", use.trust_years)])
+        key = key_asset(ref, algorithm_ref, use, name)
+        key["properties"] = properties
+        return [key, _algorithm_asset(algorithm_ref, spec, name, parameter, use.curve, inner, certification)], []
     parts, refs = [], []
     for index, component in enumerate(spec.components, start=1):
         part_ref = f"{ref}.{index}"
@@ -119,7 +139,9 @@ def _use_components(system: System, item: UseAssessment, ref: str) -> tuple[list
     label = (use.protocol or "").split()
     protocol: dict[str, Any] = {"type": _PROTOCOL_TYPE.get(label[0].lower(), "other") if label else (
         "tls" if spec.name.startswith("TLS_") else "other")}
-    if len(label) > 1:
+    if use.protocol_version:
+        protocol["version"] = use.protocol_version
+    elif len(label) > 1:
         protocol["version"] = label[1]
     protocol["cipherSuites"] = [{"name": spec.name, "algorithms": refs}]
     suite = {"type": "cryptographic-asset", "bom-ref": ref, "name": use.protocol or spec.name,
@@ -131,6 +153,7 @@ def _use_components(system: System, item: UseAssessment, ref: str) -> tuple[list
 def _system_component(item: SystemAssessment) -> dict[str, Any]:
     system = item.system
     component: dict[str, Any] = {"type": "application", "bom-ref": system.id, "name": system.name}
+    component.update(system_component_fields(system))
     if system.description:
         component["description"] = system.description
     component["properties"] = _properties([
@@ -143,6 +166,9 @@ def _system_component(item: SystemAssessment) -> dict[str, Any]:
         ("owner", system.owner), ("policy_category", system.policy_category),
         ("vendor_readiness", system.vendor_readiness), ("effort_person_weeks", system.effort_person_weeks),
         ("notes", system.notes), ("assumed", ",".join(system.assumed)),
+        # The import appends a component's version to its name: the exact name, when it has one.
+        ("name", system.name if system.version else None),
+        *system_properties(system),
     ])
     return component
 
