@@ -34,12 +34,12 @@ def check_command(
                 if (found.reason or "").endswith("is not in the algorithm catalog"):
                     continue  # already a warning, with close names
                 err.print(f"note: {visible(use.source)}: {visible(use.algorithm)}: "
-                          f"{visible(found.reason)} (this use will be unassessed)", markup=False)
+                          f"{visible(found.reason)} (this use will be unassessed)", markup=False, soft_wrap=True)
     for warning in inv.warnings:
-        err.print(f"warning: {visible(warning)}", markup=False)
+        err.print(f"warning: {visible(warning)}", markup=False, soft_wrap=True)
     uses = sum(len(s.uses) for s in inv.systems)
     err.print(f"{visible(inventory)}: valid inventory of {len(inv.systems)} systems and {uses} uses"
-              f" ({unknown} unassessed, {len(inv.warnings)} warnings)", markup=False)
+              f" ({unknown} unassessed, {len(inv.warnings)} warnings)", markup=False, soft_wrap=True)
     if strict and inv.warnings:
         raise typer.Exit(EXIT_BAD_INPUT)
     raise typer.Exit(EXIT_OK)
