@@ -214,7 +214,7 @@ def known_column_names() -> list[str]:
 def load_column_map(path: str) -> ColumnMap:
     """Read and validate a ``--columns`` file; errors name file:line:column."""
     from pqtriage.sources.interface import read_inventory_text
-    from pqtriage.sources.yaml_inventory import _Bad, _Reader
+    from pqtriage.sources.yaml_inventory import _MISSING, _Bad, _Reader
     from pqtriage.yamlio import load_yaml
 
     text, _ = read_inventory_text(path)
@@ -224,9 +224,9 @@ def load_column_map(path: str) -> ColumnMap:
                              hint="see docs/inventory-format.md, 'The column map'")
     reader = _Reader(path)
     raw = reader.mapping(root, _MAP_FIELDS, "the column map")
-    plain = {k: v for k, v in reader.fields(root, tuple(f for f in _MAP_FIELDS
-                                                        if f.name not in ("columns", "values")),
-                                            "the column map", optional=True).items()}
+    simple = tuple(f for f in _MAP_FIELDS if f.name not in ("columns", "values", "defaults"))
+    plain = {k: v for k, v in reader.fields_of(root, raw, simple, "the column map", optional=True).items()
+             if k in raw and not isinstance(v, type(_MISSING))}
     columns: dict[str, str] = {}
     if "columns" in raw:
         node = raw["columns"]
