@@ -176,6 +176,8 @@ class ColumnMap:
         name = self.columns.get(key) or key
         name = SYNONYMS.get(name, name)
         if name.startswith(EXTRA_PREFIX) and len(name) > len(EXTRA_PREFIX):
+            if name == key:  # the organisation's own name: keep its case as written
+                return EXTRA_PREFIX + header.strip().split(".", 1)[1].strip()
             return name
         return ALL_COLUMNS.get(name)
 

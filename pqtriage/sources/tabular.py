@@ -140,6 +140,8 @@ class _Table:
             parts = [p for p in _LIST_SPLIT.split(cell_text(cell).strip()) if p]
             if kind == "identifier-list":
                 parts = [p.lower() for p in parts]
+                if parts in (["none"], ["-"]):  # written for an explicitly empty list
+                    parts = []
             return Node([Node(p, line, index) for p in parts], line, index)
         if kind in ("number", "integer"):
             if isinstance(cell, (int, float)) and not isinstance(cell, bool):
@@ -205,7 +207,7 @@ class _Table:
                     system_part[column.name] = (column, cell, index)
             ident_entry = system_part.pop("id", None) or system_part.pop("system.id", None)
             if ident_entry is not None:
-                current = cell_text(ident_entry[1]).strip()
+                current = cell_text(ident_entry[1])  # as typed, like any text field
                 if current not in systems:
                     systems[current] = {"fields": {"id": Node(current, line, ident_entry[2])},
                                         "line": line, "first": {}, "uses": []}

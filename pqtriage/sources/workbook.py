@@ -76,7 +76,7 @@ def _inventory_values(rows: list[list[Any]]) -> dict[str, object]:
             continue
         key = cell_text(row[0]).strip().lower()
         if key in ("organization", "organisation"):
-            values["organization"] = cell_text(row[1]).strip()
+            values["organization"] = cell_text(row[1])
         elif key == "version":
             try:
                 values["version"] = int(float(cell_text(row[1])))

@@ -37,9 +37,20 @@ EXTRA_VALUES = st.one_of(TEXT_OR_LOOKALIKE, st.integers(-10**6, 10**6), st.boole
 YEARS = st.one_of(st.integers(0, 50).map(float), st.floats(0, 50, allow_nan=False).map(lambda v: round(v, 3)))
 
 
+def _lookalike(text: st.SearchStrategy[str]) -> st.SearchStrategy[str]:
+    return st.one_of(text, LOOKALIKES)
+
+
+def _extra_values(text: st.SearchStrategy[str]) -> st.SearchStrategy[object]:
+    return st.one_of(_lookalike(text), st.integers(-10**6, 10**6), st.booleans(),
+                     st.floats(-1e6, 1e6, allow_nan=False).map(lambda v: round(v, 3)))
+
+
 @st.composite
-def uses(draw: st.DrawFn) -> CryptoUse:
+def uses(draw: st.DrawFn, text: st.SearchStrategy[str] = TEXT) -> CryptoUse:
     """One cryptographic use."""
+    TEXT = text  # noqa: N806 - the text strategy this draw uses
+    TEXT_OR_LOOKALIKE = _lookalike(text)  # noqa: N806
     return CryptoUse(
         purpose=draw(st.sampled_from(list(Purpose))),
         algorithm=draw(st.one_of(st.sampled_from(ALGORITHMS), TEXT)),
@@ -59,8 +70,13 @@ def uses(draw: st.DrawFn) -> CryptoUse:
 
 
 @st.composite
-def inventories(draw: st.DrawFn, max_systems: int = 6, text_ids: bool = True) -> Inventory:
-    """An inventory with unique system ids (plain ones when text_ids is False)."""
+def inventories(draw: st.DrawFn, max_systems: int = 6, text_ids: bool = True,
+                text: st.SearchStrategy[str] = TEXT) -> Inventory:
+    """An inventory with unique system ids (plain ones when text_ids is False); ``text`` draws
+    every free text."""
+    TEXT = text  # noqa: N806 - the text strategy this draw uses
+    TEXT_OR_LOOKALIKE = _lookalike(text)  # noqa: N806
+    EXTRA_VALUES = _extra_values(text)  # noqa: N806
     count = draw(st.integers(0, max_systems))
     if text_ids:
         ids = draw(st.lists(TEXT, min_size=count, max_size=count, unique=True))
@@ -73,7 +89,7 @@ def inventories(draw: st.DrawFn, max_systems: int = 6, text_ids: bool = True) ->
             name=draw(st.just(ident) | TEXT),
             shelf_life_years=draw(YEARS),
             migration_years=draw(YEARS),
-            uses=tuple(draw(st.lists(uses(), max_size=3))),
+            uses=tuple(draw(st.lists(uses(text), max_size=3))),
             owner=draw(st.none() | TEXT),
             description=draw(st.none() | TEXT),
             exposure=draw(st.sampled_from(list(Exposure))),

@@ -41,8 +41,8 @@ def system_value(system: System, column: Column) -> Any:
         return None if holder is None else _plain(getattr(holder, column.path[1]))
     if outer in ("source",):
         return system.source.detail if system.source else None
-    if outer == "frameworks":
-        return None if system.frameworks is None else (", ".join(system.frameworks) or None)
+    if outer == "frameworks":  # blank: the file's; "none": none apply
+        return None if system.frameworks is None else (", ".join(system.frameworks) or "none")
     return _plain(getattr(system, outer))
 
 
