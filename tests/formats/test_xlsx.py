@@ -93,8 +93,8 @@ def test_the_workbook_reads_back_as_the_inventory(tmp_path: Path) -> None:
 def test_group_by_puts_the_group_first(tmp_path: Path) -> None:
     result = select(triaged(tmp_path), group_by="exposure")
     records = _records(_book(XlsxFormat().render_bytes(result))["Results"])
-    assert list(records[0])[:2] == ["exposure", "rank"]
-    assert [(r["exposure"], r["system_id"]) for r in records] == [
+    assert list(records[0])[:2] == ["group (exposure)", "rank"]
+    assert [(r["group (exposure)"], r["system_id"]) for r in records] == [
         ("internal", "+scada-link"), ("internal", "billing"), ("internet", "telemetry")]
 
 

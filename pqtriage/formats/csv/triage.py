@@ -58,6 +58,11 @@ def row(item: SystemAssessment) -> list[str]:
     ]
 
 
+def group_header(field: str) -> str:
+    """Header of the group column: "group (owner)" (a reader of inventories reads past it)."""
+    return f"group ({field})"
+
+
 class CsvFormat(ResultFormat):
     """Ranked systems as RFC 4180 CSV (CRLF line ends, quoted where needed)."""
 
@@ -76,7 +81,7 @@ class CsvFormat(ResultFormat):
 
         # Grouped: the group's value first, rows by group then rank (a system with several
         # tags or frameworks is on one row per group).
-        writer.writerow((selection.group_by, *COLUMNS))
+        writer.writerow((group_header(selection.group_by), *COLUMNS))
         for label, items in groups(result, selection.group_by):
             for item in items:
                 writer.writerow([csv_cell(label), *row(item)])

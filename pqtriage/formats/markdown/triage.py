@@ -100,12 +100,16 @@ def ranked_table(result: TriageResult) -> list[str]:
     from pqtriage.model.view import groups
 
     lines = ["## Ranked systems", ""]
-    for label, items in groups(result, selection.group_by):
-        lines += _ranked_rows(result, items, f"### {md(selection.group_by)}: {md(label)} ({len(items)} systems)")
+    found = groups(result, selection.group_by)
+    for index, (label, items) in enumerate(found):
+        count = f"{len(items)} system" + ("" if len(items) == 1 else "s")
+        lines += _ranked_rows(result, items, f"### {md(selection.group_by)}: {md(label)} ({count})",
+                              legend=index == len(found) - 1)
     return lines
 
 
-def _ranked_rows(result: TriageResult, items: Sequence[SystemAssessment], heading: str) -> list[str]:
+def _ranked_rows(result: TriageResult, items: Sequence[SystemAssessment], heading: str,
+                 legend: bool = True) -> list[str]:
     rows = []
     for item in items:
         weakest = item.weakest
@@ -127,6 +131,8 @@ def _ranked_rows(result: TriageResult, items: Sequence[SystemAssessment], headin
         rows,
     )
     lines.append("")
+    if not legend:
+        return lines
     lines.append("Verdicts: " + "; ".join(f"**{VERDICT_LABEL[v]}**: {VERDICT_MEANING[v]}" for v in Verdict) + ".")
     if any(i.system.assumed for i in result.items):
         lines.append("")

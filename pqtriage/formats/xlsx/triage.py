@@ -23,7 +23,7 @@ import math
 from typing import Any
 
 from pqtriage import __version__
-from pqtriage.formats.csv.triage import COLUMNS
+from pqtriage.formats.csv.triage import COLUMNS, group_header
 from pqtriage.formats.interface import ResultFormat
 from pqtriage.formats.labels import short_replacement
 from pqtriage.formats.notes import CAUTIONS, SOURCES, assumptions
@@ -84,7 +84,7 @@ def workbook(result: TriageResult) -> bytes:
 
         grouped = [[label, *result_row(item)] for label, items in groups(result, selection.group_by)
                    for item in items]
-        writer.sheet(RESULTS_SHEET, [selection.group_by, *COLUMNS], grouped)
+        writer.sheet(RESULTS_SHEET, [group_header(selection.group_by), *COLUMNS], grouped)
     else:
         writer.sheet(RESULTS_SHEET, COLUMNS, (result_row(item) for item in result.items))
     shown = {item.system.id: item for item in result.items}
