@@ -18,13 +18,15 @@ sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
 from bench.common import ROOT, child_env, machine_info
 
-SCRIPTS = ("bench_triage.py", "bench_report.py", "bench_scan.py", "bench_cold_start.py", "bench_probe.py")
+SCRIPTS = ("bench_triage.py", "bench_csv.py", "bench_report.py", "bench_scan.py", "bench_cold_start.py", "bench_probe.py")
 """One script per figure, in the order of the issue."""
 
 FIXES = {
     "Triage to JSON": "look at the top cumulative entries: YAML composition is the floor's own cost; "
                       "anything above it in pqtriage (conversion to positioned nodes, evaluation, JSON "
                       "encoding) is ours to cache or batch",
+    "CSV triage": "the rows become positioned nodes and go through the YAML validator; a reader that "
+                  "validates cells directly would skip building the nodes",
     "Markdown report": "render the per-system detail with fewer string operations, or cache escaped text",
     "Certificate scan": "the per-file work beyond the floor is describing the certificate (names, "
                         "extensions, two findings) and writing the inventory; a faster path would "
