@@ -122,3 +122,11 @@ def test_the_template_shows_the_fields_and_is_valid(tmp_path: Path) -> None:
         assert f"{name}:" in template, name
     inventory = _load(tmp_path, template)
     assert inventory.systems and json.dumps(json_schema())
+
+
+def test_the_format_document_names_every_field() -> None:
+    from pqtriage.sources.schema import SYSTEM_FIELDS, TOP_FIELDS, USE_FIELDS
+
+    doc = (Path(__file__).resolve().parents[2] / "docs" / "inventory-format.md").read_text(encoding="utf-8")
+    for spec in (*TOP_FIELDS, *SYSTEM_FIELDS, *USE_FIELDS):
+        assert f"| `{spec.name}` |" in doc, spec.name
