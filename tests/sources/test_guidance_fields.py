@@ -130,3 +130,24 @@ def test_the_format_document_names_every_field() -> None:
     doc = (Path(__file__).resolve().parents[2] / "docs" / "inventory-format.md").read_text(encoding="utf-8")
     for spec in (*TOP_FIELDS, *SYSTEM_FIELDS, *USE_FIELDS):
         assert f"| `{spec.name}` |" in doc, spec.name
+
+
+def test_init_writes_the_template_as_a_workbook_too(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    from pqtriage.cli import main
+
+    book = tmp_path / "inventory.xlsx"
+    assert main(["init", str(book), "--format", "xlsx"]) == 0
+    from_book = load_inventory(str(book))
+    from_yaml = _load(tmp_path, (Path(__file__).resolve().parents[2] / "pqtriage" / "data" /
+                                 "inventory-template.yaml").read_text(encoding="utf-8"))
+    assert [(s.id, s.hosting, s.fips_140_level, len(s.uses)) for s in from_book.systems] == [
+        (s.id, s.hosting, s.fips_140_level, len(s.uses)) for s in from_yaml.systems]
+    header = next(openpyxl_rows(book))
+    for column in ("id", "business_unit", "impact", "hosting.model", "system.key_storage", "purpose", "algorithm"):
+        assert column in header, column
+
+
+def openpyxl_rows(path: Path) -> object:
+    import openpyxl
+
+    return openpyxl.load_workbook(path)["Uses"].iter_rows(values_only=True)
