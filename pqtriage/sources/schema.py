@@ -10,6 +10,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from pqtriage.model.inventory import (
+    USE_ROLES,
     Criticality,
     Exposure,
     HostingModel,
@@ -60,7 +61,7 @@ class FieldSpec:
     name: str
     """Key as written in YAML."""
     kind: str
-    """str, number, integer, bool, enum, string-list, identifier-list, field-list, mapping,
+    """str, number, integer, bool, enum, date, string-list, identifier-list, field-list, mapping,
     extra, uses, systems or defaults."""
     description: str
     """What the field means, shown in the JSON Schema and docs."""
@@ -108,6 +109,12 @@ USE_FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("notes", "str", "Free text."),
     FieldSpec("source", "str", "Where the use was found (file and block, host:port)."),
     FieldSpec("assumed", "field-list", "Fields whose values are defaults, not facts."),
+    FieldSpec("role", "enum", "in-use (what runs; the default) or offered (a server offers it, a "
+              "current client does not negotiate it).", choices=USE_ROLES),
+    FieldSpec("not_before", "date", "Start of validity of the certificate the use rests on "
+              "(YYYY-MM-DD)."),
+    FieldSpec("not_after", "date", "End of validity of the certificate the use rests on "
+              "(YYYY-MM-DD)."),
 )
 
 DATA_CLASSIFICATION_FIELDS: tuple[FieldSpec, ...] = (
@@ -214,6 +221,8 @@ def _field_schema(spec: FieldSpec) -> dict[str, Any]:
         schema = {"type": "string", "enum": list(spec.choices)}
     elif spec.kind == "bool":
         schema = {"type": "boolean"}
+    elif spec.kind == "date":
+        schema = {"type": "string", "format": "date"}
     elif spec.kind == "string-list":
         schema = {"type": "array", "items": {"type": "string"}}
     elif spec.kind == "identifier-list":

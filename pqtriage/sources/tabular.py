@@ -166,6 +166,9 @@ class _Table:
             return Node(cell_text(cell), line, index)
         if kind == "enum":
             return Node(self.map.value_for(column, cell_text(cell)), line, index)
+        if kind == "date" and isinstance(cell, (dt.date, dt.datetime)):
+            day = cell.date() if isinstance(cell, dt.datetime) else cell
+            return Node(day.isoformat(), line, index)
         return Node(cell_text(cell), line, index)
 
     def extra_node(self, cell: Cell, line: int, index: int) -> Node:

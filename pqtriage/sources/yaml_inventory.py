@@ -11,6 +11,7 @@ their cells and are validated by this reader too.
 
 from __future__ import annotations
 
+import datetime as dt
 import difflib
 import math
 import re
@@ -19,6 +20,7 @@ from typing import Any
 
 from pqtriage.errors import InventoryError, InventoryProblems, Place, Problem
 from pqtriage.model.inventory import (
+    IN_USE,
     Criticality,
     CryptoUse,
     DataClassification,
@@ -49,6 +51,9 @@ _NESTED = ("uses", "systems", "defaults")
 
 PlaceOf = Callable[[int | None, int | None], Place]
 """Turns a node's line and column into the Place messages name (a workbook cell for a sheet)."""
+
+
+_ISO_DATE = re.compile(r"\d{4}-\d{2}-\d{2}")
 
 
 def _kind_of(value: object) -> str:
@@ -159,6 +164,14 @@ class _Reader:
                 hint = f"did you mean '{close[0]}'?" if close else f"use one of: {', '.join(spec.choices)}"
                 raise _Bad(node, f"{label} is {str(value)[:60]!r}, not a known value", hint)
             return value
+        if spec.kind == "date":
+            try:
+                if not isinstance(value, str) or not _ISO_DATE.fullmatch(value):
+                    raise ValueError(value)
+                return dt.date.fromisoformat(value)
+            except ValueError:
+                raise _Bad(node, f"{label} is {str(value)[:40]!r}, not a date",
+                           "write YYYY-MM-DD, for example 2030-06-30") from None
         if spec.kind in ("string-list", "field-list", "identifier-list"):
             if not isinstance(value, list):
                 raise _Bad(node, f"{label} must be a list, got {_kind_of(value)}",
@@ -258,6 +271,9 @@ class _Reader:
             notes=values.get("notes"),
             source=SourceRef(self.path, node.line, node.column, values.get("source")),
             assumed=values.get("assumed", ()),
+            role=values.get("role", IN_USE),
+            not_before=values.get("not_before"),
+            not_after=values.get("not_after"),
         )
         if self.check is not None:
             for found in self.check(use):
