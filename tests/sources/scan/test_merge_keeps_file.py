@@ -16,17 +16,28 @@ from pqtriage.sources.loading import load_inventory
 from tests.sources import material as m
 
 
+def _scalar(value: object) -> str:
+    return yaml.safe_dump(value, default_flow_style=True).strip().removesuffix("...").strip()
+
+
+def _use_lines(use: dict[str, object], index: int) -> str:
+    """A scanned use as the owner keeps it: every scanned fact, a comment, the owner's note."""
+    lines = []
+    for number, (key, value) in enumerate(use.items()):
+        if key == "notes":
+            value = f"hand note {index}: keep"
+        text = f"{key}: {_scalar(value)}"
+        if key == "key_size":
+            text = f"{text:<25}# rotated soon"
+        lines.append(("      - " if number == 0 else "        ") + text + "\n")
+    return "".join(lines)
+
+
 def _hand_kept(tmp_path: Path) -> tuple[Path, Path, str]:
     folder = tmp_path / "svc"
     pem = m.write(folder / "svc.pem", m.cert_pem(m.certificate(m.rsa_key(2048), "Fictional Signal Service")))
     scanned = yaml.safe_load(scan_command([str(folder)]).text)["systems"][0]
-    uses = "".join(f"""\
-      - purpose: {use['purpose']}
-        algorithm: {use['algorithm']}
-        key_size: 2048           # rotated soon
-        source: {use['source']!r}
-        notes: "hand note {index}: keep"
-""" for index, use in enumerate(scanned["uses"], start=1))
+    uses = "".join(_use_lines(use, index) for index, use in enumerate(scanned["uses"], start=1))
     text = f"""\
 # Crypto register of the Wrenfield Ferry Company (kept by hand; do not reorder)
 version: 1
