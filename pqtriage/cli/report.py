@@ -11,6 +11,7 @@ from pqtriage.cli.common import (
     CBOM_DEFAULTS_HELP,
     COLUMNS_HELP,
     GROUP_BY_HELP,
+    HARDWARE_HELP,
     PROFILE_HELP,
     TOP_HELP,
     WHERE_HELP,
@@ -34,6 +35,7 @@ def report_command(
     capacity: Optional[str] = typer.Option(None, "--capacity", help="Plan capacity: migrations in parallel (3), person-weeks per quarter (40pw), or both."),
     fail_on: Optional[VerdictChoice] = typer.Option(None, "--fail-on", help="Exit 1 if any system is at or above this verdict."),
     cbom_defaults: Optional[str] = typer.Option(None, "--cbom-defaults", help=CBOM_DEFAULTS_HELP),
+    hardware: Optional[str] = typer.Option(None, "--hardware", help=HARDWARE_HELP),
     columns: Optional[str] = typer.Option(None, "--columns", help=COLUMNS_HELP),
     where: Optional[str] = typer.Option(None, "--where", help=WHERE_HELP),
     top: Optional[int] = typer.Option(None, "--top", min=1, help=TOP_HELP),
@@ -51,7 +53,7 @@ def report_command(
     from pqtriage.formats.table.summary import summary_block
     from pqtriage.pipeline import parse_as_of, prepare
 
-    run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults, columns)
+    run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults, hardware, columns)
     if by is not None:
         if group_by is not None:
             raise UsageError("--by and --group-by both group the report", hint="give one of them")

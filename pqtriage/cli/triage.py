@@ -11,6 +11,7 @@ from pqtriage.cli.common import (
     CBOM_DEFAULTS_HELP,
     COLUMNS_HELP,
     GROUP_BY_HELP,
+    HARDWARE_HELP,
     PROFILE_HELP,
     TOP_HELP,
     WHERE_HELP,
@@ -38,12 +39,13 @@ def triage_command(
     group_by: Optional[str] = typer.Option(None, "--group-by", help=GROUP_BY_HELP),
     fail_on: Optional[VerdictChoice] = typer.Option(None, "--fail-on", help="Exit 1 if any system is at or above this verdict."),
     cbom_defaults: Optional[str] = typer.Option(None, "--cbom-defaults", help=CBOM_DEFAULTS_HELP),
+    hardware: Optional[str] = typer.Option(None, "--hardware", help=HARDWARE_HELP),
     columns: Optional[str] = typer.Option(None, "--columns", help=COLUMNS_HELP),
 ) -> None:
     """Rank the inventory's systems by post-quantum exposure."""
     from pqtriage.pipeline import parse_as_of, run_triage
 
-    full = run_triage(inventory, profile, parse_as_of(as_of), cbom_defaults, columns)
+    full = run_triage(inventory, profile, parse_as_of(as_of), cbom_defaults, hardware, columns)
     result = view_of(full, where, top, group_by, output_format.value)
     formatter = result_formats()[output_format.value]
     if formatter is None:
