@@ -3,7 +3,7 @@
 The CSV holds the same uses as the YAML benchmark's synthetic inventory (one row per use, the
 system columns repeated on every row, as spreadsheets export them). Goal: at the largest size,
 the CSV run takes at most the YAML run's budget, GOAL_RATIO times the floor (PyYAML's C loader
-reading the YAML file), and peak memory stays under 1 GiB.
+reading the YAML file), and its peak memory stays within MEMORY_MARGIN of the YAML run's.
 Run: python bench/bench_csv.py [--quick] [--profile]
 """
 
@@ -18,10 +18,12 @@ sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
 import yaml
 
-from bench.bench_triage import GOAL_MEMORY, GOAL_RATIO, floor_argv, triage_args
+from bench.bench_triage import GOAL_RATIO, floor_argv, triage_args
 from bench.common import Figure, best_of, main_for, mib, pqtriage_argv, profile_summary, work_dir
 from bench.synthetic import write_inventory
 
+MEMORY_MARGIN = 1.10
+"""CSV peak memory accepted, as a multiple of the YAML run's on the same uses."""
 COLUMNS = ("id", "name", "owner", "shelf_life_years", "migration_years", "exposure", "criticality",
            "purpose", "algorithm", "key_size", "curve", "protocol", "trust_years", "notes")
 """The synthetic inventory's fields as CSV columns."""
@@ -55,11 +57,11 @@ def measure(args: argparse.Namespace) -> list[Figure]:
         measured="pqtriage triage INVENTORY.csv --format json -o FILE (whole process), beside the same for YAML",
         floor="python -c yaml.load(text, Loader=CSafeLoader) on the YAML file (whole process)",
         goal=f"the CSV run within the YAML budget: at most {GOAL_RATIO:g}x the floor at the largest size, "
-             "peak memory under 1 GiB",
+             f"peak memory at most {MEMORY_MARGIN:g}x the YAML run's",
         met=None,
     )
     ratio = 0.0
-    peak = 0
+    memory = 0.0
     for uses in sizes:
         source, path = write_csv(folder, uses)
         repeat = 1 if uses >= 100_000 else 3
@@ -69,14 +71,14 @@ def measure(args: argparse.Namespace) -> list[Figure]:
         if from_csv.returncode != 0:
             raise SystemExit(f"the CSV run failed: {from_csv.stderr}")
         ratio = from_csv.seconds / floor.seconds
-        peak = max(peak, from_csv.peak_rss_bytes)
+        memory = from_csv.peak_rss_bytes / from_yaml.peak_rss_bytes
         figure.rows.append({
             "uses": f"{uses:,}", "CSV file": mib(path.stat().st_size), "CSV s": f"{from_csv.seconds:.2f}",
             "YAML s": f"{from_yaml.seconds:.2f}", "floor s": f"{floor.seconds:.2f}",
             "CSV / floor": f"{ratio:.2f}x", "CSV / YAML": f"{from_csv.seconds / from_yaml.seconds:.2f}x",
-            "CSV peak memory": mib(from_csv.peak_rss_bytes),
+            "CSV peak memory": mib(from_csv.peak_rss_bytes), "YAML peak memory": mib(from_yaml.peak_rss_bytes),
         })
-    figure.met = ratio <= GOAL_RATIO and peak < GOAL_MEMORY
+    figure.met = ratio <= GOAL_RATIO and memory <= MEMORY_MARGIN
     if not figure.met:
         figure.notes.append("missed: see the profile below for where the time goes")
         if args.profile:

@@ -288,6 +288,8 @@ def read_sheet(sheet: Sheet, path: str, sha256: str | None, column_map: ColumnMa
     table = _Table(sheet, column_map, place_of)
     table.sheet_path = path  # type: ignore[attr-defined]
     root = table.tree()
+    if isinstance(sheet.rows, list):
+        sheet.rows.clear()  # the cells now live in the tree: free the rows before validating
     try:
         inventory = read_tree(root, path, sha256, check, place_of, defaults=column_map.defaults)
     except InventoryProblems as problems:
