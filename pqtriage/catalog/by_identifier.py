@@ -19,15 +19,25 @@ An OID pqtriage does not know leaves the name to decide.
 from __future__ import annotations
 
 from dataclasses import replace
-from typing import TYPE_CHECKING
+from typing import Protocol
 
+from pqtriage.catalog.build import SpecBuilder
 from pqtriage.catalog.identifiers import Identifiers, OidRow
 from pqtriage.catalog.spec import Resolution
 from pqtriage.errors import CatalogError, Place
 
-if TYPE_CHECKING:
-    from pqtriage.catalog.build import SpecBuilder
-    from pqtriage.catalog.resolve import Catalog
+
+class Catalog(Protocol):
+    """What resolution by identifier asks of the catalog (pqtriage.catalog.resolve.Catalog has it)."""
+
+    def resolve_name(self, algorithm: str, *, key_size: int | None = None, curve: str | None = None,
+                     parameter_set: str | None = None, purpose: str | None = None) -> Resolution:
+        """Resolve by name alone."""
+        ...
+
+    def curve_in(self, text: str) -> str | None:
+        """The catalog curve a name ends with, or None."""
+        ...
 
 _UNKNOWN = "is not in the algorithm catalog"
 
