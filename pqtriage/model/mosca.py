@@ -157,6 +157,8 @@ def evaluate_use(
     assumed = tuple(f"{name} is an assumed default" for name in use.assumed)
     if resolution.spec is None:
         hint = f"; did you mean {', '.join(resolution.suggestions)}?" if resolution.suggestions else ""
+        if use.notes:  # the source's own account of what is missing (a dangling CBOM reference ...)
+            hint += f" ({use.notes})"
         return UseAssessment(
             use=use, spec=None, deciding=None, verdict=Verdict.UNASSESSED, x_years=x, y_years=y,
             exposure_probability=None, margin_years=None, start_by=None, crqc_year=None,
