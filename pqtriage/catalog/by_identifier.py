@@ -49,12 +49,12 @@ def attach_oids(builder: SpecBuilder, identifiers: Identifiers) -> None:
         for spelling in (name, *builder.aliases.get(name, [])):
             by_spelling.setdefault(spelling.casefold(), spec.name)
     for row in identifiers.oids.values():
-        name = by_spelling.get(row.algorithm.casefold())
-        if name is None:
+        canonical = by_spelling.get(row.algorithm.casefold())
+        if canonical is None:
             continue
-        spec = builder.fixed[name]
+        spec = builder.fixed[canonical]
         if "oid" not in spec.identifiers:
-            builder.fixed[name] = replace(spec, identifiers={**spec.identifiers, "oid": row.oid})
+            builder.fixed[canonical] = replace(spec, identifiers={**spec.identifiers, "oid": row.oid})
 
 
 def check_targets(catalog: Catalog, identifiers: Identifiers) -> None:

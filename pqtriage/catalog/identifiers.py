@@ -12,7 +12,7 @@ the hash a signature name fixes), so the catalog resolves it like any other name
 from __future__ import annotations
 
 import re
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, NoReturn
 
@@ -52,6 +52,8 @@ class OidRow:
     """The digest a signature OID fixes."""
     purpose: str | None = None
     """The purpose the OID implies (a signature OID: signature), when it implies one."""
+    spellings: dict[str, tuple[str, ...]] = field(default_factory=dict, compare=False, hash=False)
+    """Naming family -> how that family writes this algorithm (java: SHA512withRSA ...)."""
 
 
 @dataclass(frozen=True)
@@ -122,16 +124,20 @@ class Identifiers:
             _fail(self.where, label, f"purpose '{row['purpose']}' is not one of: {', '.join(PURPOSES)}")
         if row["kind"] == "signature" and row.get("purpose") is None:
             row = {**row, "purpose": "signature"}
-        item = OidRow(oid=oid, name=str(row["name"]), algorithm=str(row["algorithm"]), kind=str(row["kind"]),
-                      source=str(row["source"]), hash=row.get("hash"), purpose=row.get("purpose"))
-        self.oids[oid] = item
-        self._add(item.name, Translation(item.algorithm, f"ASN.1 name {item.name} (OID {oid})", item.source,
-                                         oid=item, hash=item.hash, purpose=item.purpose), label)
+        columns: dict[str, tuple[str, ...]] = {}
         for family in FAMILIES:
             spellings = row.get(family, [])
             if not isinstance(spellings, list) or not all(isinstance(s, str) for s in spellings):
                 _fail(self.where, label, f"'{family}' must be a list of names")
-            for spelling in spellings:
+            columns[family] = tuple(spellings)
+        item = OidRow(oid=oid, name=str(row["name"]), algorithm=str(row["algorithm"]), kind=str(row["kind"]),
+                      source=str(row["source"]), hash=row.get("hash"), purpose=row.get("purpose"),
+                      spellings=columns)
+        self.oids[oid] = item
+        self._add(item.name, Translation(item.algorithm, f"ASN.1 name {item.name} (OID {oid})", item.source,
+                                         oid=item, hash=item.hash, purpose=item.purpose), label)
+        for family in FAMILIES:
+            for spelling in columns[family]:
                 self._add(spelling, Translation(
                     item.algorithm, f"{_LABEL[family]} {spelling} (OID {oid}, {item.name})",
                     f"{self.sources[family]}; OID: {item.source}", oid=item, hash=item.hash,

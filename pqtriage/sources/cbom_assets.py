@@ -274,9 +274,9 @@ class UseBuilder:
                              key_size=None, curve=None)
         signature, key = text_of(props.get("signatureAlgorithmRef")), text_of(props.get("subjectPublicKeyRef"))
         if signature is None and key is None:
-            uses = self._children(ref, dated.into(ref, purpose=Purpose.AUTHENTICATION), depth)
+            listed = self._children(ref, dated.into(ref, purpose=Purpose.AUTHENTICATION), depth)
             name = text_of(component.get("name")) or ref
-            return uses or [self._unknown(dated, name, f"certificate '{ref}' names no signatureAlgorithmRef and no"
+            return listed or [self._unknown(dated, name, f"certificate '{ref}' names no signatureAlgorithmRef and no"
                                           " subjectPublicKeyRef", ref, Purpose.AUTHENTICATION)]
         uses: list[CryptoUse] = []
         # The signature on the certificate is made with the issuer's key and must hold while the
