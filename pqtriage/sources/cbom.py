@@ -58,11 +58,13 @@ class _DuplicateKey(ValueError):
 
 
 def _pairs(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
-    out: dict[str, Any] = {}
-    for key, value in pairs:
-        if key in out:
-            raise _DuplicateKey(key)
-        out[key] = value
+    out = dict(pairs)  # built in C; only a duplicate key makes it shorter than the pairs
+    if len(out) != len(pairs):
+        seen: set[str] = set()
+        for key, _ in pairs:
+            if key in seen:
+                raise _DuplicateKey(key)
+            seen.add(key)
     return out
 
 
@@ -89,20 +91,25 @@ def load_json(text: str, path: str) -> Any:
 
 def asset_parts(component: dict[str, Any]) -> list[str]:
     """bom-refs an asset's cryptoProperties refer to (its algorithms, keys, suites)."""
-    crypto = mapping_of(component.get("cryptoProperties"))
+    crypto = component.get("cryptoProperties")
+    if not isinstance(crypto, dict):
+        return []
     found: list[str] = []
     for section, keys in _REF_FIELDS:
-        props = mapping_of(crypto.get(section))
-        found += [props[k] for k in keys if isinstance(props.get(k), str)]
-    protocol = mapping_of(crypto.get("protocolProperties"))
-    suites = protocol.get("cipherSuites")
-    for suite in suites if isinstance(suites, list) else []:
-        found += refs_of(mapping_of(suite).get("algorithms"))
-    for refs in mapping_of(protocol.get("ikev2TransformTypes")).values():
-        found += refs_of(refs)
-    found += refs_of(protocol.get("cryptoRefArray"))
+        props = crypto.get(section)
+        if isinstance(props, dict):
+            found += [props[k] for k in keys if isinstance(props.get(k), str)]
+    protocol = crypto.get("protocolProperties")
+    if isinstance(protocol, dict):
+        suites = protocol.get("cipherSuites")
+        for suite in suites if isinstance(suites, list) else []:
+            found += refs_of(mapping_of(suite).get("algorithms"))
+        for refs in mapping_of(protocol.get("ikev2TransformTypes")).values():
+            found += refs_of(refs)
+        found += refs_of(protocol.get("cryptoRefArray"))
     for section in ("certificateProperties", "relatedCryptoMaterialProperties", "protocolProperties"):
-        related = mapping_of(crypto.get(section)).get("relatedCryptographicAssets")  # CycloneDX 1.7
+        props = crypto.get(section)
+        related = props.get("relatedCryptographicAssets") if isinstance(props, dict) else None  # CycloneDX 1.7
         for item in related if isinstance(related, list) else []:
             if isinstance(mapping_of(item).get("ref"), str):
                 found.append(item["ref"])
@@ -123,6 +130,7 @@ class _BomReader:
         self.provides: dict[str, list[str]] = {}
         self.subject: str | None = None
         self.positions = Positions("")
+        self._parts: dict[str, list[str]] = {}
 
     def fail(self, where: str, message: str, ref: str | None = None, hint: str | None = None) -> InventoryError:
         line, column = self.positions.of(ref)
@@ -212,8 +220,11 @@ class _BomReader:
             if ref in seen:
                 continue
             seen.add(ref)
-            nxt = asset_parts(self.crypto[ref]) + self.edges.get(ref, []) + self.nested.get(ref, [])
-            queue.extend(r for r in nxt if r in self.crypto and r not in seen)
+            parts = self._parts.get(ref)
+            if parts is None:
+                parts = self._parts[ref] = asset_parts(self.crypto[ref])
+            for nxt in (parts, self.edges.get(ref, ()), self.nested.get(ref, ())):
+                queue.extend(r for r in nxt if r in self.crypto and r not in seen)
         return seen
 
     def _carriers(self) -> tuple[dict[str, list[str]], list[str]]:

@@ -20,7 +20,6 @@ whose algorithm the catalog does not know: it is triaged as unassessed, never dr
 
 from __future__ import annotations
 
-import bisect
 import datetime as dt
 import json
 import re
@@ -119,18 +118,23 @@ class Positions:
     """Line and column of each bom-ref in the JSON text (json.loads keeps no positions)."""
 
     def __init__(self, text: str):
-        self._starts = [0] + [m.end() for m in re.finditer("\n", text)]
         self._found: dict[str, tuple[int, int]] = {}
-        for match in _BOM_REF.finditer(text):
-            try:
-                ref = json.loads(match.group(1))
-            except ValueError:
-                continue
-            self._found.setdefault(ref, self._place(match.start()))
-
-    def _place(self, offset: int) -> tuple[int, int]:
-        line = bisect.bisect_right(self._starts, offset)
-        return line, offset - self._starts[line - 1] + 1
+        line, last, offset = 1, 0, text.find('"bom-ref"')
+        while offset >= 0:  # in document order: count the newlines in between (str.find is C-fast)
+            match = _BOM_REF.match(text, offset)
+            if match is not None:
+                line += text.count("\n", last, offset)
+                last = offset
+                quoted = match.group(1)
+                ref: str | None = quoted[1:-1]
+                if "\\" in quoted:
+                    try:
+                        ref = json.loads(quoted)
+                    except ValueError:
+                        ref = None
+                if isinstance(ref, str) and ref not in self._found:
+                    self._found[ref] = (line, offset - text.rfind("\n", 0, offset))
+            offset = text.find('"bom-ref"', offset + 9)
 
     def of(self, ref: str | None) -> tuple[int | None, int | None]:
         """(line, column) of the ``"bom-ref"`` key of this ref, or (None, None)."""
@@ -165,17 +169,24 @@ class _Context:
     def into(self, ref: str, **changes: Any) -> _Context:
         """The context for a part this asset refers to."""
         last = self.via[-1] if self.via else self.carrier
-        via = self.via if ref == last else (*self.via, ref)
-        return replace(self, via=via, **changes)
+        fields = dict(self.__dict__)  # faster than dataclasses.replace on this hot path
+        fields["via"] = self.via if ref == last else (*self.via, ref)
+        fields.update(changes)
+        return _Context(**fields)
 
     def noting(self, *notes: str | None) -> _Context:
         """The same context with more notes."""
-        return replace(self, notes=(*self.notes, *(n for n in notes if n)))
+        fields = dict(self.__dict__)
+        fields["notes"] = (*self.notes, *(n for n in notes if n))
+        return _Context(**fields)
 
 
 def _notes(*parts: str | None) -> str | None:
-    text = "; ".join(dict.fromkeys(p for p in parts if p))
-    return text or None
+    kept: list[str] = []
+    for part in parts:
+        if part and part not in kept:
+            kept.append(part)
+    return "; ".join(kept) or None
 
 
 @dataclass
@@ -432,6 +443,8 @@ def compose_name(name: str, props: dict[str, Any]) -> tuple[str, str | None]:
     ``AES`` with ``mode: gcm`` is ``AES-GCM`` (the key size then picks AES-128-GCM ...);
     ``RSA`` with ``padding: oaep`` is ``RSA-OAEP``. A name that already says it stays as it is.
     """
+    if "mode" not in props and "padding" not in props:
+        return name, None
     loose = re.sub(r"[-_/\s]+", "", name).casefold()
     mode = text_of(props.get("mode"))
     if mode and mode.casefold() in MODES_IN_NAME and mode.casefold() not in loose:
@@ -444,6 +457,8 @@ def compose_name(name: str, props: dict[str, Any]) -> tuple[str, str | None]:
 
 def exact_facts(use: CryptoUse, component: dict[str, Any]) -> CryptoUse:
     """A use with the ``pqtriage:`` facts our own export wrote on its asset, where present."""
+    if "properties" not in component:
+        return use
     own = properties_of(component)
     if not any(f"pqtriage:{name}" in own for name in USE_PROPERTIES):
         return use

@@ -98,13 +98,18 @@ class References:
         self.material_sizes: dict[str, set[int]] = {}
         """Algorithm bom-ref -> sizes of the keys (related material) that refer to it."""
         self._subjects: dict[str, list[str]] = {}
+        self._described: dict[str, KeyFacts] = {}
         for ref, component in assets.items():
-            crypto = _mapping(component.get("cryptoProperties"))
-            material = _mapping(crypto.get("relatedCryptoMaterialProperties"))
-            target, size = _text(material.get("algorithmRef")), _size(material.get("size"))
-            if target and size:
-                self.material_sizes.setdefault(target, set()).add(size)
-            subject = _text(_mapping(crypto.get("certificateProperties")).get("subjectName"))
+            crypto = component.get("cryptoProperties")
+            if not isinstance(crypto, dict):
+                continue
+            material = crypto.get("relatedCryptoMaterialProperties")
+            if isinstance(material, dict):
+                target, size = _text(material.get("algorithmRef")), _size(material.get("size"))
+                if target and size:
+                    self.material_sizes.setdefault(target, set()).add(size)
+            certificate = crypto.get("certificateProperties")
+            subject = _text(certificate.get("subjectName")) if isinstance(certificate, dict) else None
             if subject:
                 self._subjects.setdefault(_dn(subject), []).append(ref)
 
@@ -119,8 +124,15 @@ class References:
             return None, f"keys of sizes {listed} refer to '{ref}': which one this use has is not said"
         return None, None
 
-    def describe(self, ref: str, path: tuple[str, ...] = (), depth: int = 0) -> KeyFacts:
-        """Facts of the algorithm a bom-ref stands for (through keys and certificates)."""
+    def describe(self, ref: str) -> KeyFacts:
+        """Facts of the algorithm a bom-ref stands for (through keys and certificates); each
+        bom-ref is described once per BOM."""
+        found = self._described.get(ref)
+        if found is None:
+            found = self._described[ref] = self._describe(ref, (), 0)
+        return found
+
+    def _describe(self, ref: str, path: tuple[str, ...], depth: int) -> KeyFacts:
         path = (*path, ref)
         component = self.assets.get(ref)
         if component is None:
@@ -134,14 +146,14 @@ class References:
             key = _text(_mapping(crypto.get("certificateProperties")).get("subjectPublicKeyRef"))
             if key is None:
                 return KeyFacts(name, path, problem=f"certificate '{ref}' names no subjectPublicKeyRef")
-            return self.describe(key, path, depth + 1)
+            return self._describe(key, path, depth + 1)
         if kind == "related-crypto-material":
             props = _mapping(crypto.get("relatedCryptoMaterialProperties"))
             target = _text(props.get("algorithmRef"))
             if target is None:
                 return KeyFacts(name, path, key_size=_size(props.get("size")),
                                 problem=f"key '{ref}' names no algorithmRef")
-            inner = self.describe(target, path, depth + 1)
+            inner = self._describe(target, path, depth + 1)
             size = _size(props.get("size"))
             return KeyFacts(inner.algorithm, inner.path, inner.primitive, size or inner.key_size, inner.curve,
                             inner.oid, inner.problem)
