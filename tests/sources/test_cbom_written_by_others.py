@@ -234,3 +234,20 @@ def test_each_name_resolves(tmp_path: Path, name: str, props: dict[str, object],
     path.write_text(w.json(), encoding="utf-8")
     use = run_triage(str(path), None, AS_OF).items[0].uses[0]
     assert use.spec is not None and use.spec.name == expected, use.reason
+
+
+def test_key_exchange_and_certificate_on_two_curves(tmp_path: Path) -> None:
+    w = Writer()
+    w.algorithm("alg-x25519", "X25519", primitive=CryptoPrimitive.KEY_AGREE)
+    w.algorithm("alg-ecdsa", "ECDSA", primitive=CryptoPrimitive.SIGNATURE, curve="secp384r1")
+    w.protocol("proto-radar", ProtocolPropertiesType.TLS, "1.2",
+               suites=[("TLS_ECDHE_ECDSA_WITH_AES_256_GCM_SHA384", ["alg-x25519", "alg-ecdsa"])])
+    w.application("app-radar", "wave-radar", ["proto-radar"])
+    path = tmp_path / "radar.cdx.json"
+    path.write_text(w.json(), encoding="utf-8")
+    suite, key = run_triage(str(path), None, AS_OF).items[0].uses
+    # The suite name gives one curve: the key exchange's (X25519, RFC 8446 §4.2.7); the ECDSA key on
+    # P-384 (SP 800-186) is rated as a use of its own.
+    assert suite.use.curve == "X25519" and suite.spec is not None
+    assert {c.purpose: c.spec.name for c in suite.spec.components}["key-establishment"] == "X25519"
+    assert (key.use.purpose.value, key.spec.name if key.spec else None) == ("authentication", "ECDSA P-384")
