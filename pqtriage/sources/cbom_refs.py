@@ -178,7 +178,10 @@ class References:
         if subject is not None and _dn(subject) == _dn(issuer):
             facts = self.describe(certificate)
             return facts, f"self-signed ({issuer[:120]}): signed with its own key"
-        found = [r for r in self._subjects.get(_dn(issuer), []) if r != certificate]
+        candidates = self._subjects.get(_dn(issuer), [])
+        # At most two candidates are looked at: more than that is ambiguous whatever they are
+        # (a BOM with thousands of certificates of one subject stays linear).
+        found = [r for r in candidates[:3] if r != certificate] if len(candidates) <= 2 else candidates
         if len(found) == 1:
             return self.describe(found[0]), f"signed by the key of certificate '{found[0]}' ({issuer[:120]})"
         if found:
