@@ -154,7 +154,7 @@ class _BomReader:
                                  " read as 1.6")
         metadata = mapping_of(doc.get("metadata"))
         if isinstance(metadata.get("component"), dict):
-            self.subject = self._collect(metadata["component"], "metadata.component", None)
+            self.subject = self._collect(metadata["component"], "metadata.component", None, None)
         for key in ("components", "services"):
             self._collect_list(doc.get(key), key, None)
         self._dependencies(doc.get("dependencies"))
@@ -176,26 +176,31 @@ class _BomReader:
         if not isinstance(value, list):
             raise self.fail(where, "must be a list", parent)
         for index, item in enumerate(value):
-            self._collect(item, f"{where}[{index}]", parent)
+            self._collect(item, where, index, parent)
 
-    def _collect(self, component: object, where: str, parent: str | None) -> str:
+    def _collect(self, component: object, where: str, index: int | None, parent: str | None) -> str:
+        def label() -> str:  # built only when needed: most components have a bom-ref and no children
+            return where if index is None else f"{where}[{index}]"
+
         if not isinstance(component, dict):
-            raise self.fail(where, "must be a JSON object", parent)
+            raise self.fail(label(), "must be a JSON object", parent)
         ref = component.get("bom-ref")
         if ref is not None and not text_of(ref):
-            raise self.fail(where, "bom-ref must be non-empty text", parent)
-        ref = ref or where
+            raise self.fail(label(), "bom-ref must be non-empty text", parent)
+        ref = ref or label()
         if ref in self.nodes or ref in self.crypto:
-            raise self.fail(where, f"duplicate bom-ref '{ref[:80]}'", ref, "bom-refs must be unique in a BOM")
+            raise self.fail(label(), f"duplicate bom-ref '{ref[:80]}'", ref, "bom-refs must be unique in a BOM")
         is_crypto = component.get("type") == "cryptographic-asset" or "cryptoProperties" in component
         (self.crypto if is_crypto else self.nodes)[ref] = component
         if is_crypto and not isinstance(component.get("cryptoProperties"), dict):
-            self.warnings.append(f"{self.path}: {where} is a cryptographic asset without cryptoProperties;"
+            self.warnings.append(f"{self.path}: {label()} is a cryptographic asset without cryptoProperties;"
                                  " read as an algorithm named by its name")
         if parent is not None:
             self.nested.setdefault(parent, []).append(ref)
-        self._collect_list(component.get("components"), f"{where}.components", ref)
-        self._collect_list(component.get("services"), f"{where}.services", ref)
+        if "components" in component:
+            self._collect_list(component["components"], f"{label()}.components", ref)
+        if "services" in component:
+            self._collect_list(component["services"], f"{label()}.services", ref)
         return ref
 
     def _dependencies(self, value: object) -> None:
@@ -207,9 +212,11 @@ class _BomReader:
             if not isinstance(entry, dict) or not text_of(entry.get("ref")):
                 raise self.fail(f"dependencies[{index}]", "must be an object with a 'ref'")
             for key, target in (("dependsOn", self.edges), ("provides", self.provides)):
-                if key in entry and not isinstance(entry[key], list):
+                if key not in entry:
+                    continue
+                if not isinstance(entry[key], list):
                     raise self.fail(f"dependencies[{index}].{key}", "must be a list of bom-refs")
-                target.setdefault(entry["ref"], []).extend(refs_of(entry.get(key)))
+                target.setdefault(entry["ref"], []).extend(refs_of(entry[key]))
 
     def _closure(self, start: list[str]) -> set[str]:
         """Crypto assets reached from these through refs and dependsOn between crypto assets."""
