@@ -57,11 +57,15 @@ def scan(
     organization: str = typer.Option("Scanned inventory", "--organization", help="Organisation name of a new inventory."),
     shelf_life: float = typer.Option(5.0, "--shelf-life", help="Assumed shelf-life x for found systems (flagged as assumed)."),
     migration_years: float = typer.Option(2.0, "--migration-years", help="Assumed migration time y (flagged as assumed)."),
+    as_of: Optional[str] = typer.Option(None, "--as-of", help="Date the remaining validity of certificates is counted from (YYYY-MM-DD, default today)."),
     max_file_size: int = typer.Option(16 * 1024 * 1024, "--max-file-size", help="Skip files larger than this many bytes."),
 ) -> None:
     """Find keys and certificates in files and folders; write an inventory."""
+    from pqtriage.pipeline import parse_as_of
+
     finish_discovery(scan_command(
         list(paths), output=output, output_format=output_format.value, group_by=group_by.value,
         merge=merge, password_file=password_file, organization=organization,
         shelf_life_years=shelf_life, migration_years=migration_years, max_file_bytes=max_file_size,
+        as_of=parse_as_of(as_of),
     ))

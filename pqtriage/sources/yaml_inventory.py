@@ -96,11 +96,10 @@ class _Reader:
                 raise self.fail(node, f"{label} is {str(value)[:60]!r}, not a known value", hint)
             return value
         if spec.kind == "date":
-            text = value if isinstance(value, str) else None
             try:
-                if text is None or not _ISO_DATE.fullmatch(text):
-                    raise ValueError(text)
-                return dt.date.fromisoformat(text)
+                if not isinstance(value, str) or not _ISO_DATE.fullmatch(value):
+                    raise ValueError(value)
+                return dt.date.fromisoformat(value)
             except ValueError:
                 raise self.fail(node, f"{label} is {str(value)[:40]!r}, not a date",
                                 "write YYYY-MM-DD, for example 2030-06-30") from None

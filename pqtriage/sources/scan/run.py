@@ -8,6 +8,7 @@ writes nothing; progress is reported through a plain callback the caller supplie
 
 from __future__ import annotations
 
+import datetime as dt
 import os
 from collections.abc import Callable
 from contextlib import AbstractContextManager, nullcontext
@@ -58,6 +59,7 @@ def scan_inventory(
     migration_years: float = DEFAULT_MIGRATION_YEARS,
     max_file_bytes: int = DEFAULT_MAX_FILE_BYTES,
     progress: Progress | None = None,
+    as_of: dt.date | None = None,
 ) -> CommandResult:
     """Scan files and folders for keys and certificates and return an inventory.
 
@@ -71,6 +73,7 @@ def scan_inventory(
         shelf_life_years, migration_years: defaults written and marked assumed.
         max_file_bytes: larger files are skipped with a note.
         progress: reports progress (the CLI's progress bar); None reports nothing.
+        as_of: date the remaining validity of certificates is counted from (default today).
     """
     check_format(output_format)
     rule = _group_rule(group_by)
@@ -95,6 +98,7 @@ def scan_inventory(
     return finish_inventory(
         list(result.findings) + damaged_findings(result.problems), rule, organization, shelf_life_years, migration_years, merge,
         path_scope(list(paths)), output_format, summary, not result.complete,
+        as_of=as_of or dt.date.today(),
     )  # fmt: skip
 
 

@@ -8,18 +8,17 @@ case they are reported as corrupt.
 
 from __future__ import annotations
 
-import dataclasses
 from collections.abc import Callable, Iterable
 from dataclasses import dataclass
 
 from pqtriage.sources.scan.der import MATERIAL_SUFFIXES, parse_der
 from pqtriage.sources.scan.findings import (
     Finding,
-    FindingKind,
     ParseOutcome,
     ProblemKind,
     ScanProblem,
 )
+from pqtriage.sources.scan.issuers import link_issuers
 from pqtriage.sources.scan.jwks import looks_like_jwk, parse_jwks
 from pqtriage.sources.scan.openssh import parse_openssh_text
 from pqtriage.sources.scan.pem import has_pem, parse_pem
@@ -106,7 +105,7 @@ def scan_entries(
             with_material += outcome.recognised
         if advance is not None:
             advance(entry.path)
-    return ScanResult(tuple(fill_issuer_facts(findings)), tuple(problems), read, with_material)
+    return ScanResult(tuple(link_issuers(findings)), tuple(problems), read, with_material)
 
 
 def scan_paths(
@@ -115,37 +114,3 @@ def scan_paths(
     """Walk and scan in one call (no progress reporting)."""
     entries, problems = plan(paths, max_file_bytes)
     return scan_entries(entries, problems, password, max_file_bytes)
-
-
-def fill_issuer_facts(findings: list[Finding]) -> list[Finding]:
-    """Give a certificate signature the issuer's curve and size when the issuer was also found.
-
-    Issuer and subject are matched by their RFC 4514 names; only facts missing from the
-    signature are filled, and the fill is noted.
-    """
-    issuers: dict[str, Finding] = {}
-    for finding in findings:
-        if finding.kind is FindingKind.CERTIFICATE_KEY and finding.subject is not None:
-            issuers.setdefault(finding.subject, finding)
-    result = []
-    for finding in findings:
-        issuer = issuers.get(finding.issuer or "") if finding.issuer else None
-        if (
-            finding.kind is FindingKind.CERTIFICATE_SIGNATURE
-            and issuer is not None
-            and issuer.algorithm == finding.algorithm
-            and (
-                finding.curve is None
-                and issuer.curve is not None
-                or finding.key_size is None
-                and issuer.key_size is not None
-            )
-        ):
-            finding = dataclasses.replace(
-                finding,
-                curve=finding.curve or issuer.curve,
-                key_size=finding.key_size or issuer.key_size,
-                notes=finding.notes + (f"issuer key from {issuer.locator()}",),
-            )
-        result.append(finding)
-    return result
