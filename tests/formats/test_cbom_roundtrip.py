@@ -163,3 +163,23 @@ def test_export_then_import_gives_identical_verdicts(tmp_path: Path, inventory: 
     source = run_triage(str(path), None, AS_OF)
     again, _ = round_trip(source, tmp_path)
     assert verdicts(again) == verdicts(source)
+
+
+@pytest.mark.network
+@pytest.mark.sshd
+def test_ssh_probe_output_round_trip(tmp_path: Path) -> None:
+    from pqtriage.sources.probe.run import probe_inventory
+    from tests.sources.probe import servers
+
+    reason = servers.sshd_missing_reason()
+    if reason is not None:
+        pytest.skip(reason)
+    with servers.sshd_server(tmp_path, host_keys=("ed25519", "rsa:3072")) as port:
+        probed = probe_inventory([f"ssh://127.0.0.1:{port}"], timeout=10)
+    source = _triage_text(tmp_path, probed.text)
+    roles = {u.use.role for item in source.items for u in item.uses}
+    assert roles == {"in-use", "offered"}  # what a current client negotiates, and what else is offered
+    again, text = round_trip(source, tmp_path)
+    assert verdicts(again) == verdicts(source)
+    assert [u.use.role for i in again.items for u in i.uses] == [u.use.role for i in source.items for u in i.uses]
+    assert _validator().validate_str(text) is None
