@@ -147,6 +147,7 @@ class _Reader:
             role=values.get("role", IN_USE),
             not_before=values.get("not_before"),
             not_after=values.get("not_after"),
+            oid=values.get("oid"),
         )
 
     def system(self, node: Node, index: int, defaults: dict[str, Any]) -> System:

@@ -44,6 +44,7 @@ def use_dict(item: UseAssessment) -> dict[str, Any]:
         "trust_years": item.use.trust_years,
         "not_before": item.use.not_before.isoformat() if item.use.not_before else None,
         "not_after": item.use.not_after.isoformat() if item.use.not_after else None,
+        "oid": item.use.oid,
         "classical_bits": spec.classical_bits if spec else None,
         "classical_status": spec.classical_status if spec else None,
         "quantum_attack": spec.quantum_attack if spec else None,
