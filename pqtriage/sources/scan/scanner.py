@@ -9,10 +9,15 @@ case they are reported as corrupt.
 from __future__ import annotations
 
 import dataclasses
-from collections.abc import Callable, Iterable
+import os
+from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass
 
 from pqtriage.sources.scan.der import MATERIAL_SUFFIXES, parse_der
+from pqtriage.sources.scan.finders import default_finders
+from pqtriage.sources.scan.finders.dispatch import Dispatcher, ScanSummary
+from pqtriage.sources.scan.finders.interface import Finder, FinderContext
+from pqtriage.sources.scan.finders.openssl_cli import system_expander
 from pqtriage.sources.scan.findings import (
     Finding,
     FindingKind,
@@ -41,6 +46,8 @@ class ScanResult:
     """Regular files read."""
     files_with_material: int
     """Files in which at least one format was recognised."""
+    summary: ScanSummary | None = None
+    """What each finder saw, understood and could not understand."""
 
     @property
     def complete(self) -> bool:
@@ -50,6 +57,22 @@ class ScanResult:
 
 def classify(data: bytes, path: str, password: bytes | None = None) -> ParseOutcome:
     """Recognise one file's format and describe what it holds. Pure: bytes in, data out."""
+    outcome = recognise(data, path, password)
+    if outcome.recognised:
+        return outcome
+    return material_name_fallback(data, path)
+
+
+def material_name_fallback(data: bytes, path: str) -> ParseOutcome:
+    """A file named like key material (``.key``, ``.pem`` ...) that no reader recognised."""
+    if data and path.lower().endswith(MATERIAL_SUFFIXES):
+        problem = ScanProblem(path, ProblemKind.CORRUPT, "no recognised key or certificate")
+        return ParseOutcome(problems=(problem,), recognised=True)
+    return ParseOutcome()
+
+
+def recognise(data: bytes, path: str, password: bytes | None = None) -> ParseOutcome:
+    """The key and certificate readers in order; not recognised when none applies."""
     if looks_like_pkcs12(data):
         return parse_pkcs12(data, path, password)
     if has_pem(data):
@@ -66,9 +89,6 @@ def classify(data: bytes, path: str, password: bytes | None = None) -> ParseOutc
         outcome = parse_openssh_text(data.decode("utf-8", "replace"), path)
         if outcome.recognised:
             return outcome
-    if data and path.lower().endswith(MATERIAL_SUFFIXES):
-        problem = ScanProblem(path, ProblemKind.CORRUPT, "no recognised key or certificate")
-        return ParseOutcome(problems=(problem,), recognised=True)
     return ParseOutcome()
 
 
@@ -89,24 +109,53 @@ def scan_entries(
     password: bytes | None = None,
     max_file_bytes: int = DEFAULT_MAX_FILE_BYTES,
     advance: Callable[[str], None] | None = None,
+    context: FinderContext | None = None,
+    finders: Sequence[Finder] | None = None,
 ) -> ScanResult:
-    """Read and classify each file; one file's failure never stops the scan."""
+    """Read each file and hand it to the finders; one file's failure never stops the scan."""
+    entries = list(entries)
+    if context is None:
+        context = FinderContext(
+            passwords=(password,) if password is not None else (),
+            expand_cipher_string=system_expander(),
+        )
+    dispatcher = Dispatcher(
+        finders if finders is not None else default_finders(),
+        context,
+        read_reference=lambda path: read_named_file(path, max_file_bytes),
+        fallback=material_name_fallback,
+    )
+    dispatcher.mark_seen([entry.path for entry in entries])
     findings: list[Finding] = []
     problems: list[ScanProblem] = list(walk_problems)
-    read = with_material = 0
+    read = 0
     for entry in entries:
         data = read_file(entry, max_file_bytes)
         if isinstance(data, ScanProblem):
             problems.append(data)
         else:
             read += 1
-            outcome = classify(data, entry.path, password)
-            findings.extend(outcome.findings)
-            problems.extend(outcome.problems)
-            with_material += outcome.recognised
+            found, trouble = dispatcher.run_file(data, entry.path)
+            findings.extend(found)
+            problems.extend(trouble)
         if advance is not None:
             advance(entry.path)
-    return ScanResult(tuple(fill_issuer_facts(findings)), tuple(problems), read, with_material)
+    summary = dispatcher.summary
+    understood = sum(tally.understood for tally in summary.finders.values())
+    return ScanResult(
+        tuple(fill_issuer_facts(findings)), tuple(problems), read, understood, summary
+    )
+
+
+def read_named_file(path: str, max_file_bytes: int = DEFAULT_MAX_FILE_BYTES) -> bytes | ScanProblem:
+    """Read a file a configuration names (the walk's rules: regular files within the limit)."""
+    if os.path.isdir(path):
+        return ScanProblem(path, ProblemKind.SKIPPED, "a folder, not a file")
+    for item in walk([path], max_file_bytes):
+        if isinstance(item, ScanProblem):
+            return item
+        return read_file(item, max_file_bytes)
+    return ScanProblem(path, ProblemKind.UNREADABLE, "no such file")
 
 
 def scan_paths(

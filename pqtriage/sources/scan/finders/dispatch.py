@@ -1,0 +1,234 @@
+"""Hand each file to the finders that want it; follow references; recurse into archives.
+
+Every finder whose :meth:`~Finder.wants` accepts a file's name or first bytes reads it; a
+file may be claimed by more than one (an OpenVPN file with inline certificates). What a file
+names (a certificate in a server configuration, an included fragment) is read through the
+``read_reference`` callable the caller gives (the edge), once per path, so include loops end.
+Archive members are handed back to the finders with the nesting depth, inside one budget
+of bytes and members per archive on disk.
+
+The tally per finder feeds the scan summary: files seen, understood, findings, and each file
+not understood with why.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import os
+from collections.abc import Callable, Sequence
+from dataclasses import dataclass, field
+from typing import Any
+
+from pqtriage.sources.scan.finders.interface import (
+    ArchiveBudget,
+    Finder,
+    FinderContext,
+    FinderResult,
+    Member,
+)
+from pqtriage.sources.scan.findings import Finding, ProblemKind, ScanProblem
+
+#: How many bytes of a file the ``wants`` tests see.
+HEAD_BYTES = 4096
+#: References followed from one file on disk (certificates, includes), transitively.
+MAX_REFERENCES = 256
+
+
+@dataclass
+class FinderTally:
+    """Counts for one finder over a scan."""
+
+    seen: int = 0
+    """Files the finder claimed (of its kind by name or content)."""
+    understood: int = 0
+    """Claimed files it could use."""
+    findings: int = 0
+    """Uses it reported."""
+    not_understood: list[tuple[str, str]] = field(default_factory=list)
+    """(file, why) for each claimed file it could not use."""
+
+
+@dataclass
+class ScanSummary:
+    """What each finder did, and the files no finder took."""
+
+    finders: dict[str, FinderTally] = field(default_factory=dict)
+    """Tally per finder name, in the finders' order."""
+    unclaimed: int = 0
+    """Files read that no finder took (no cryptographic material of a known kind)."""
+
+    def tally(self, name: str) -> FinderTally:
+        """The tally of a finder (created on first use)."""
+        return self.finders.setdefault(name, FinderTally())
+
+    def lines(self) -> list[str]:
+        """One line per finder that saw anything, then each file not understood."""
+        lines = []
+        for name, tally in self.finders.items():
+            if tally.seen:
+                lines.append(
+                    f"{name}: {tally.seen} seen, {tally.understood} understood, "
+                    f"{tally.findings} findings, {len(tally.not_understood)} not understood"
+                )
+        for name, tally in self.finders.items():
+            lines += [f"{place}: not understood by {name}: {why}" for place, why in tally.not_understood]
+        if self.unclaimed:
+            lines.append(f"{self.unclaimed} files held nothing any finder reads")
+        return lines
+
+    def to_dict(self) -> dict[str, Any]:
+        """The same, as plain data for JSON."""
+        return {
+            "finders": [
+                {
+                    "finder": name,
+                    "seen": tally.seen,
+                    "understood": tally.understood,
+                    "findings": tally.findings,
+                    "not_understood": [
+                        {"file": place, "why": why} for place, why in tally.not_understood
+                    ],
+                }
+                for name, tally in self.finders.items()
+            ],
+            "unclaimed": self.unclaimed,
+        }
+
+
+ReadReference = Callable[[str], "bytes | ScanProblem"]
+
+
+class Dispatcher:
+    """Runs the finders over files; one per scan (it remembers the files already read)."""
+
+    def __init__(
+        self,
+        finders: Sequence[Finder],
+        context: FinderContext,
+        read_reference: ReadReference | None = None,
+        fallback: Callable[[bytes, str], Any] | None = None,
+    ) -> None:
+        self.finders = list(finders)
+        self.by_name = {finder.name: finder for finder in self.finders}
+        self.context = context
+        self.read_reference = read_reference
+        self.fallback = fallback
+        self.summary = ScanSummary()
+        for finder in self.finders:
+            self.summary.tally(finder.name)
+        self.visited: set[str] = set()
+
+    def mark_seen(self, paths: Sequence[str]) -> None:
+        """Paths the walk will read anyway: references to them are not read twice."""
+        self.visited.update(os.path.realpath(path) for path in paths)
+
+    def run_file(self, data: bytes, path: str) -> tuple[list[Finding], list[ScanProblem]]:
+        """All findings and problems of one file on disk, references and members included."""
+        self.visited.add(os.path.realpath(path))
+        findings: list[Finding] = []
+        problems: list[ScanProblem] = []
+        budget = ArchiveBudget(self.context.limits.max_total_bytes, self.context.limits.max_members)
+        references_left = [MAX_REFERENCES]
+        self._run(data, path, 0, None, budget, references_left, findings, problems)
+        return findings, problems
+
+    def _run(
+        self,
+        data: bytes,
+        path: str,
+        depth: int,
+        only: str | None,
+        budget: ArchiveBudget,
+        references_left: list[int],
+        findings: list[Finding],
+        problems: list[ScanProblem],
+    ) -> None:
+        head = data[:HEAD_BYTES]
+        context = dataclasses.replace(self.context, depth=depth, budget=budget)
+        claimed = False
+        candidates = [self.by_name[only]] if only in self.by_name else self.finders
+        for finder in candidates:
+            if only is None and not finder.wants(path, head):
+                continue
+            try:
+                result = finder.read(data, path, context)
+            except RecursionError:
+                result = FinderResult(
+                    claimed=True,
+                    not_understood="nested too deeply to read",
+                    problems=(ScanProblem(path, ProblemKind.NOT_UNDERSTOOD, "nested too deeply"),),
+                )
+            if not result.claimed:
+                continue
+            claimed = True
+            self._record(finder.name, path, result)
+            findings.extend(result.findings)
+            problems.extend(result.problems)
+            for member in result.members:
+                self._member(member, depth, budget, references_left, findings, problems)
+            for reference in result.references:
+                self._reference(reference, depth, budget, references_left, findings, problems)
+        if not claimed and self.fallback is not None:
+            outcome = self.fallback(data, path)
+            if outcome.recognised:
+                tally = self.summary.tally(self.finders[0].name)
+                tally.seen += 1
+                reasons = "; ".join(p.reason for p in outcome.problems) or "not recognised"
+                tally.not_understood.append((path, reasons))
+                problems.extend(outcome.problems)
+                claimed = True
+        if not claimed:
+            self.summary.unclaimed += 1
+
+    def _record(self, name: str, path: str, result: FinderResult) -> None:
+        tally = self.summary.tally(name)
+        tally.seen += 1
+        tally.findings += len(result.findings)
+        if result.not_understood is None:
+            tally.understood += 1
+        else:
+            tally.not_understood.append((path, result.not_understood))
+
+    def _member(
+        self,
+        member: Member,
+        depth: int,
+        budget: ArchiveBudget,
+        references_left: list[int],
+        findings: list[Finding],
+        problems: list[ScanProblem],
+    ) -> None:
+        self._run(member.data, member.name, depth + 1, None, budget, references_left,
+                  findings, problems)  # fmt: skip
+
+    def _reference(
+        self,
+        reference: Any,
+        depth: int,
+        budget: ArchiveBudget,
+        references_left: list[int],
+        findings: list[Finding],
+        problems: list[ScanProblem],
+    ) -> None:
+        if self.read_reference is None or "!" in reference.referrer.file:
+            return  # inside an archive, paths name files of another machine
+        real = os.path.realpath(reference.path)
+        if real in self.visited:
+            return  # read already (by the walk, or an include loop): never twice
+        self.visited.add(real)
+        where = f"{reference.referrer.file}:{reference.referrer.line}"
+        if references_left[0] <= 0:
+            problems.append(ScanProblem(
+                reference.path, ProblemKind.SKIPPED,
+                f"named by {where} ({reference.role}); too many files named, not read",
+            ))  # fmt: skip
+            return
+        references_left[0] -= 1
+        data = self.read_reference(reference.path)
+        if isinstance(data, ScanProblem):
+            problems.append(ScanProblem(
+                reference.path, data.kind, f"named by {where} ({reference.role}): {data.reason}"
+            ))  # fmt: skip
+            return
+        self._run(data, reference.path, depth, reference.finder, budget, references_left,
+                  findings, problems)  # fmt: skip
