@@ -142,9 +142,8 @@ def scan_entries(
             advance(entry.path)
     summary = dispatcher.summary
     understood = sum(tally.understood for tally in summary.finders.values())
-    return ScanResult(
-        tuple(fill_issuer_facts(findings)), tuple(problems), read, understood, summary
-    )
+    findings = dispatcher.link_facts(fill_issuer_facts(findings))
+    return ScanResult(tuple(findings), tuple(problems), read, understood, summary)
 
 
 def read_named_file(path: str, max_file_bytes: int = DEFAULT_MAX_FILE_BYTES) -> bytes | ScanProblem:

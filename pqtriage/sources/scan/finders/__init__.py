@@ -13,5 +13,6 @@ def default_finders() -> list[Finder]:
     """Every finder, key material first (its tally also takes files named like key material)."""
     from pqtriage.sources.scan.finders.key_material import KeyMaterialFinder
     from pqtriage.sources.scan.finders.nginx import NginxFinder
+    from pqtriage.sources.scan.finders.openssh_config import OpensshConfigFinder
 
-    return [KeyMaterialFinder(), NginxFinder()]
+    return [KeyMaterialFinder(), NginxFinder(), OpensshConfigFinder()]

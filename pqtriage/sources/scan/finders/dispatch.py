@@ -26,6 +26,7 @@ from pqtriage.sources.scan.finders.interface import (
     FinderResult,
     Member,
 )
+from pqtriage.sources.scan.finders.tlsconfig import SERVER_CERTIFICATE, fill_from_certificates
 from pqtriage.sources.scan.findings import Finding, ProblemKind, ScanProblem
 
 #: How many bytes of a file the ``wants`` tests see.
@@ -117,10 +118,18 @@ class Dispatcher:
         for finder in self.finders:
             self.summary.tally(finder.name)
         self.visited: set[str] = set()
+        self.walk_paths: set[str] = set()
+        """Real paths the walk reads."""
+        self.claimed_by: dict[str, set[str]] = {}
+        """Real path -> finders that claimed it."""
+        self.hints: dict[str, set[str]] = {}
+        """Real path of a walked file not read yet -> finders it must go to (included fragments)."""
+        self.certificate_links: dict[str, list[str]] = {}
+        """Configuration file -> real paths of the server certificates it names."""
 
     def mark_seen(self, paths: Sequence[str]) -> None:
         """Paths the walk will read anyway: references to them are not read twice."""
-        self.visited.update(os.path.realpath(path) for path in paths)
+        self.walk_paths.update(os.path.realpath(path) for path in paths)
 
     def run_file(self, data: bytes, path: str) -> tuple[list[Finding], list[ScanProblem]]:
         """All findings and problems of one file on disk, references and members included."""
@@ -146,9 +155,13 @@ class Dispatcher:
         head = data[:HEAD_BYTES]
         context = dataclasses.replace(self.context, depth=depth, budget=budget)
         claimed = False
+        real = os.path.realpath(path) if depth == 0 else path
+        hinted = self.hints.pop(real, set())
         candidates = [self.by_name[only]] if only in self.by_name else self.finders
         for finder in candidates:
-            if only is None and not finder.wants(path, head):
+            if only is None and finder.name not in hinted and not finder.wants(path, head):
+                continue
+            if finder.name in self.claimed_by.get(real, ()):
                 continue
             try:
                 result = finder.read(data, path, context)
@@ -161,6 +174,7 @@ class Dispatcher:
             if not result.claimed:
                 continue
             claimed = True
+            self.claimed_by.setdefault(real, set()).add(finder.name)
             self._record(finder.name, path, result)
             findings.extend(result.findings)
             problems.extend(result.problems)
@@ -201,6 +215,10 @@ class Dispatcher:
         self._run(member.data, member.name, depth + 1, None, budget, references_left,
                   findings, problems)  # fmt: skip
 
+    def link_facts(self, findings: list[Finding]) -> list[Finding]:
+        """Facts that cross files: a configuration's suites take its certificate's key size."""
+        return fill_from_certificates(findings, self.certificate_links)
+
     def _reference(
         self,
         reference: Any,
@@ -213,7 +231,15 @@ class Dispatcher:
         if self.read_reference is None or "!" in reference.referrer.file:
             return  # inside an archive, paths name files of another machine
         real = os.path.realpath(reference.path)
-        if real in self.visited:
+        if reference.role == SERVER_CERTIFICATE:
+            self.certificate_links.setdefault(reference.referrer.file, []).append(real)
+        if real in self.walk_paths and real not in self.visited:
+            if reference.finder:  # the walk reads it later: make sure that finder sees it
+                self.hints.setdefault(real, set()).add(reference.finder)
+            return
+        if real in self.visited and (
+            reference.finder is None or reference.finder in self.claimed_by.get(real, ())
+        ):
             return  # read already (by the walk, or an include loop): never twice
         self.visited.add(real)
         where = f"{reference.referrer.file}:{reference.referrer.line}"

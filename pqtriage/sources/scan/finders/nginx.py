@@ -127,7 +127,7 @@ def _walk(tokens: list[Token], path: str) -> tuple[list[TlsSettings], list[Refer
             parent = stack[-1][1]
             child = replace(parent, certificates=list(parent.certificates), extra_notes=[])
             if name == "server":
-                child.label = "server block at line %d" % token.line
+                child.label = f"server block at line {token.line}"
             stack.append((name, child))
             statement = []
         elif token.text == "}":

@@ -17,6 +17,13 @@ from pqtriage.sources.scan.finders.cipherstring import cipher_table, expand
 from pqtriage.sources.scan.finders.interface import FinderContext, Reference
 from pqtriage.sources.scan.findings import Finding, FindingKind
 
+#: Directives naming the server's own certificate: its key sizes the RSA parts of the suites.
+SERVER_CERTIFICATE_DIRECTIVES = frozenset(
+    {"ssl_certificate", "SSLCertificateFile", "crt", "cert", "Certificate", "certs"}
+)
+SERVER_CERTIFICATE = "server certificate"
+"""Role of a reference to the server's own certificate."""
+
 #: OpenSSL 3.0's default groups (ssl/t1_lib.c, supported_groups_default), from memory; used
 #: only when a configuration names no groups, and said so in the note.
 OPENSSL_DEFAULT_GROUPS = ("x25519", "secp256r1", "x448", "secp521r1", "secp384r1")
@@ -142,7 +149,9 @@ def settings_findings(
         Reference(
             path=resolve_path(path, cert.value),
             referrer=SourceRef(path, line=cert.line, detail=f"line{cert.line}"),
-            role=cert.directive,
+            role=SERVER_CERTIFICATE
+            if cert.directive in SERVER_CERTIFICATE_DIRECTIVES
+            else cert.directive,
         )
         for cert in settings.certificates
         if cert.value and not cert.value.startswith(("data:", "engine:", "store:", "$"))
@@ -156,3 +165,53 @@ def resolve_path(config_path: str, named: str) -> str:
     if os.path.isabs(named):
         return named
     return os.path.join(os.path.dirname(config_path) or ".", named)
+
+
+_SSH_RSA = ("ssh-rsa", "rsa-sha2-")
+
+
+def fill_from_certificates(findings: list[Finding], links: dict[str, list[str]]) -> list[Finding]:
+    """Give RSA-authenticated suites of a configuration the key size of its server certificate.
+
+    ``links`` maps a configuration file to the real paths of the certificates it names as the
+    server's own. Only suites whose authentication is RSA (per the cipher table) and whose size
+    is missing are filled; the fill is noted, so the fact's origin stays visible.
+    """
+    if not links:
+        return findings
+    rsa_sizes: dict[str, tuple[int, str]] = {}
+    key_kinds = (FindingKind.CERTIFICATE_KEY, FindingKind.PRIVATE_KEY, FindingKind.SSH_KEY,
+                 FindingKind.PUBLIC_KEY)  # fmt: skip
+    for finding in findings:
+        if finding.kind in key_kinds and finding.algorithm in ("RSA", "ssh-rsa"):
+            real = os.path.realpath(finding.source.file)
+            if finding.key_size is not None:
+                rsa_sizes.setdefault(real, (finding.key_size, finding.locator()))
+    table = cipher_table()
+    result = []
+    for finding in findings:
+        certificates = links.get(finding.source.file)
+        if (
+            certificates
+            and finding.kind is FindingKind.CONFIG_SETTING
+            and finding.key_size is None
+            and (
+                str(table.suites.get(finding.algorithm, {}).get("au", "")) == "RSA"
+                or finding.protocol == "SSH"
+                and finding.algorithm.startswith(_SSH_RSA)
+                and ":HostKeyAlgorithms:" in f":{finding.source.detail}"
+            )
+        ):
+            found = next((rsa_sizes[c] for c in certificates if c in rsa_sizes), None)
+            if found is not None:
+                size, where = found
+                finding = replace_finding(finding, size, f"RSA key size from {where}")
+        result.append(finding)
+    return result
+
+
+def replace_finding(finding: Finding, key_size: int, note: str) -> Finding:
+    """The finding with a key size and a note saying where it came from."""
+    import dataclasses
+
+    return dataclasses.replace(finding, key_size=key_size, notes=finding.notes + (note,))
