@@ -101,7 +101,7 @@ class NginxFinder(Finder):
             return not_understood(path, f"nginx syntax: {error}")
         findings, references = [], list(includes)
         for block in blocks:
-            found, refs = settings_findings(path, block, context, self.name)
+            found, refs = settings_findings(path, block, context)
             findings += found
             references += refs
         return FinderResult(claimed=True, findings=tuple(findings), references=tuple(references))

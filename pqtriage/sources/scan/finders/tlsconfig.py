@@ -99,11 +99,14 @@ def _allows_tls13(settings: TlsSettings) -> bool:
     if settings.protocols is None:
         return True
     text = settings.protocols.value.replace("v", "").replace("V", "").lower()
-    return "1.3" in text and "-tls1.3" not in text and "!tls1.3" not in text
+    if "-tls1.3" in text or "!tls1.3" in text:
+        return False
+    # "TLSv1.2+" is a minimum version (MinProtocol, ssl-min-ver); Apache's "all" includes 1.3.
+    return "1.3" in text or text.rstrip().endswith("+") or text.split()[:1] == ["all"]
 
 
 def settings_findings(
-    path: str, settings: TlsSettings, context: FinderContext, finder: str
+    path: str, settings: TlsSettings, context: FinderContext
 ) -> tuple[list[Finding], list[Reference]]:
     """Findings for one block: each enabled suite, each group, and certificate references."""
     findings: list[Finding] = []
@@ -128,7 +131,16 @@ def settings_findings(
             findings.append(_use(path, settings.ciphers, suite, Purpose.ENCRYPTION, protocol,
                                  notes, curve))  # fmt: skip
         for token in expansion.unknown:
-            findings.append(_use(path, settings.ciphers, token, Purpose.ENCRYPTION, protocol,
+            bare = token.lstrip("!-+")
+            if token != bare:
+                continue  # a removal of something unknown removes nothing we list
+            if bare.upper().startswith(("TLS-", "TLS_")) and "WITH" in bare.upper():
+                # IANA spelling (OpenVPN writes TLS-ECDHE-RSA-WITH-AES-256-GCM-SHA384).
+                iana = bare.replace("-", "_").upper()
+                findings.append(_use(path, settings.ciphers, iana, Purpose.ENCRYPTION, protocol,
+                                     notes + ("named in IANA spelling",)))  # fmt: skip
+                continue
+            findings.append(_use(path, settings.ciphers, bare, Purpose.ENCRYPTION, protocol,
                                  notes + ("keyword unknown to OpenSSL 3.0; not expanded",)))  # fmt: skip
     if _allows_tls13(settings) and (settings.ciphersuites is not None or settings.ciphers):
         if settings.ciphersuites is not None:
@@ -197,6 +209,8 @@ def fill_from_certificates(findings: list[Finding], links: dict[str, list[str]])
             and finding.key_size is None
             and (
                 str(table.suites.get(finding.algorithm, {}).get("au", "")) == "RSA"
+                or finding.algorithm.startswith("TLS_")
+                and ("_RSA_WITH_" in finding.algorithm or finding.algorithm.startswith("TLS_RSA_"))
                 or finding.protocol == "SSH"
                 and finding.algorithm.startswith(_SSH_RSA)
                 and ":HostKeyAlgorithms:" in f":{finding.source.detail}"
