@@ -63,6 +63,7 @@ class JavaSecurityFinder(Finder):
         if not any(key in props for key in (*_LISTS, "jdk.tls.legacyalgorithms")):
             return NOT_MINE
         findings: list[Finding] = []
+        names: set[str] = set()
         if "jdk.tls.disabledalgorithms" in props:
             value, line = props["jdk.tls.disabledalgorithms"]
             items = [item.strip() for item in value.split(",") if item.strip()]
@@ -96,6 +97,8 @@ class JavaSecurityFinder(Finder):
         if "jdk.tls.legacyalgorithms" in props:
             value, line = props["jdk.tls.legacyalgorithms"]
             for item in (i.strip() for i in value.split(",") if i.strip()):
+                if any(name in item.upper() for name in names):
+                    continue  # disabled wins over legacy (java.security comments)
                 findings.append(_use(path, line, "jdk.tls.legacyAlgorithms", item, item,
                                      Purpose.ENCRYPTION, "kept for compatibility (legacy list)"))  # fmt: skip
         return FinderResult(claimed=True, findings=tuple(findings))
