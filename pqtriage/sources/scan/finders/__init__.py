@@ -15,6 +15,7 @@ def default_finders() -> list[Finder]:
     from pqtriage.sources.scan.finders.haproxy import HaproxyFinder
     from pqtriage.sources.scan.finders.java_security import JavaSecurityFinder
     from pqtriage.sources.scan.finders.key_material import KeyMaterialFinder
+    from pqtriage.sources.scan.finders.keystores import KeystoreFinder
     from pqtriage.sources.scan.finders.nginx import NginxFinder
     from pqtriage.sources.scan.finders.openssh_config import OpensshConfigFinder
     from pqtriage.sources.scan.finders.openssl_conf import OpensslConfFinder
@@ -24,6 +25,7 @@ def default_finders() -> list[Finder]:
 
     return [
         KeyMaterialFinder(),
+        KeystoreFinder(),
         NginxFinder(),
         ApacheFinder(),
         HaproxyFinder(),

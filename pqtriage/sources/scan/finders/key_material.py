@@ -12,7 +12,7 @@ from pqtriage.sources.scan.finders.interface import (
     FinderContext,
     FinderResult,
 )
-from pqtriage.sources.scan.findings import FAILURE_KINDS, ProblemKind
+from pqtriage.sources.scan.findings import FAILURE_KINDS, FindingKind, ProblemKind
 
 
 class KeyMaterialFinder(Finder):
@@ -37,6 +37,10 @@ class KeyMaterialFinder(Finder):
             ),
             None,
         )
+        if why is None:
+            locked = [f for f in outcome.findings if f.kind is FindingKind.PKCS12_ENCRYPTED]
+            if locked:
+                why = "encrypted PKCS#12: " + locked[0].notes[-1]
         return FinderResult(
             claimed=True,
             findings=outcome.findings,
