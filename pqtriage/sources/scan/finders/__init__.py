@@ -12,6 +12,7 @@ from pqtriage.sources.scan.finders.interface import Finder
 def default_finders() -> list[Finder]:
     """Every finder, key material first (its tally also takes files named like key material)."""
     from pqtriage.sources.scan.finders.apache import ApacheFinder
+    from pqtriage.sources.scan.finders.archives import ArchiveFinder
     from pqtriage.sources.scan.finders.haproxy import HaproxyFinder
     from pqtriage.sources.scan.finders.java_security import JavaSecurityFinder
     from pqtriage.sources.scan.finders.key_material import KeyMaterialFinder
@@ -26,6 +27,7 @@ def default_finders() -> list[Finder]:
     return [
         KeyMaterialFinder(),
         KeystoreFinder(),
+        ArchiveFinder(),
         NginxFinder(),
         ApacheFinder(),
         HaproxyFinder(),
