@@ -141,17 +141,17 @@ def _members(
         return
     if _is_tar(data[:512]) or _compressed_tar(data):
         with tarfile.open(fileobj=io.BytesIO(data), mode="r:*") as archive:
-            for info in archive:
-                if not info.isfile():
+            for entry in archive:
+                if not entry.isfile():
                     continue
-                if info.size > limits.max_member_bytes:
-                    problems.append(ScanProblem(f"{path}!/{info.name}", ProblemKind.SKIPPED,
-                                                f"member larger than the limit ({info.size} bytes)"))  # fmt: skip
+                if entry.size > limits.max_member_bytes:
+                    problems.append(ScanProblem(f"{path}!/{entry.name}", ProblemKind.SKIPPED,
+                                                f"member larger than the limit ({entry.size} bytes)"))  # fmt: skip
                     continue
-                _take(budget, info.size, info.name)
-                stream = archive.extractfile(info)
-                if stream is not None:
-                    yield info.name, _read_capped(stream, cap, info.name)
+                _take(budget, entry.size, entry.name)
+                member = archive.extractfile(entry)
+                if member is not None:
+                    yield entry.name, _read_capped(member, cap, entry.name)
         return
     opener: dict[bytes, Any] = {
         GZIP_MAGIC: lambda raw: gzip.GzipFile(fileobj=raw),
