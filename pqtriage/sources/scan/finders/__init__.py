@@ -22,12 +22,14 @@ def default_finders() -> list[Finder]:
     from pqtriage.sources.scan.finders.openssl_conf import OpensslConfFinder
     from pqtriage.sources.scan.finders.openvpn import OpenvpnFinder
     from pqtriage.sources.scan.finders.strongswan import StrongswanFinder
+    from pqtriage.sources.scan.finders.traffic import TrafficFinder
     from pqtriage.sources.scan.finders.wireguard import WireguardFinder
 
     return [
         KeyMaterialFinder(),
         KeystoreFinder(),
         ArchiveFinder(),
+        TrafficFinder(),
         NginxFinder(),
         ApacheFinder(),
         HaproxyFinder(),
