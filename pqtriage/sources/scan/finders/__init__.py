@@ -21,6 +21,7 @@ def default_finders() -> list[Finder]:
     from pqtriage.sources.scan.finders.openssh_config import OpensshConfigFinder
     from pqtriage.sources.scan.finders.openssl_conf import OpensslConfFinder
     from pqtriage.sources.scan.finders.openvpn import OpenvpnFinder
+    from pqtriage.sources.scan.finders.source_code import SourceCodeFinder
     from pqtriage.sources.scan.finders.strongswan import StrongswanFinder
     from pqtriage.sources.scan.finders.traffic import TrafficFinder
     from pqtriage.sources.scan.finders.wireguard import WireguardFinder
@@ -39,4 +40,5 @@ def default_finders() -> list[Finder]:
         OpenvpnFinder(),
         WireguardFinder(),
         JavaSecurityFinder(),
+        SourceCodeFinder(),
     ]
