@@ -20,12 +20,12 @@ from bench.common import Figure, best_of, main_for, pqtriage_argv, profile_summa
 
 GOAL_RATIO = 2.0
 SCAN_ARGS = ("scan", "{folder}", "--format", "json", "-o", "{out}")
-"""CLI arguments of the measured scan (pqtriage/commands/discover.py: PATHS, --format, --output)."""
+"""CLI arguments of the measured scan (pqtriage/cli/scan.py: PATHS, --format, --output)."""
 
 PHASES_CODE = """\
 import json, sys, time
 started = time.perf_counter()
-from pqtriage.commands.discovery import scan_command
+from pqtriage.cli.scan import scan_command
 from pqtriage.sources.scan.emit import inventory_dict, render
 from pqtriage.sources.scan.grouping import GroupBy, group_findings
 from pqtriage.sources.scan.scanner import plan, scan_entries

@@ -93,7 +93,7 @@ def main() -> int:
                                 "profile": ""})
                 continue
             figures += json.loads(out.read_text(encoding="utf-8"))
-    from pqtriage.output import write_atomic
+    from pqtriage.cli.output import write_atomic
 
     write_atomic(args.output, render(machine_info(), figures, args.quick))
     print(f"wrote {args.output}")

@@ -11,7 +11,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from pqtriage.errors import UsageError
-from pqtriage.model.arrival import ArrivalModel, SharedArrival
+from pqtriage.model.arrival_model import ArrivalModel, SharedArrival
 from pqtriage.model.profile import ThreatProfile
 from pqtriage.model.triage import triage
 from pqtriage.model.verdict import TriageResult
@@ -43,7 +43,7 @@ def arrival_model_for(profile: ThreatProfile, as_of: dt.date | None = None) -> A
     if not profile.per_algorithm_arrival:
         return SharedArrival()
     from pqtriage.model.profile import decimal_year
-    from pqtriage.threat.arrival import ResourceArrivalModel
+    from pqtriage.threat.resource_arrival import ResourceArrivalModel
 
     if as_of is None:
         return ResourceArrivalModel(doubling_years=profile.qubit_doubling_years)
@@ -83,9 +83,9 @@ class TriageRun:
     def plan(self, policy_ids: tuple[str, ...] = (), capacity: str | None = None) -> Any:
         """Build the migration plan for this result."""
         from pqtriage.plan.candidates import candidates_from_triage
-        from pqtriage.plan.command import parse_capacity
         from pqtriage.plan.planner import DEFAULT_SETTINGS, build_plan
         from pqtriage.plan.policies import select_policies
+        from pqtriage.plan.scheduler import parse_capacity
 
         policies = select_policies(policy_ids, self.result.inventory.policies)
         return build_plan(candidates_from_triage(self.result), self.result.as_of, policies,
@@ -98,7 +98,7 @@ def load_any(inventory_path: str, cbom_defaults: str | None = None) -> Any:
         from pqtriage.sources.loading import load_inventory
 
         return load_inventory(inventory_path)
-    from pqtriage.sources.cbom import load_inventory_with_side_file
+    from pqtriage.sources.loading import load_inventory_with_side_file
 
     return load_inventory_with_side_file(inventory_path, cbom_defaults)
 
@@ -115,3 +115,30 @@ def prepare(
     catalog = load_catalog()
     arrival = arrival_model_for(profile, as_of)
     return TriageRun(triage(inventory, catalog, profile, arrival, as_of), catalog, arrival)
+
+
+def load_review(path: str, profile: str | None, as_of: Any, cbom_defaults: str | None) -> Any:
+    """A Review from a JSON result file, or from an inventory (YAML or CycloneDX) triaged now."""
+    from pqtriage.errors import InventoryError, Place
+    from pqtriage.model.diff import review_of_json, review_of_result
+    from pqtriage.sources.interface import read_input
+    from pqtriage.yamlio import MAX_FILE_BYTES, decode_text
+
+    data, _ = read_input(path)
+    if len(data) <= MAX_FILE_BYTES:
+        text = decode_text(data, path, InventoryError)
+        if text.lstrip().startswith("{") and '"schema_version"' in text and '"bomFormat"' not in text:
+            from pqtriage.sources.cbom import load_json
+
+            try:
+                return review_of_json(load_json(text, path), path)
+            except ValueError as exc:
+                raise InventoryError(str(exc), place=Place(path),
+                                     hint="give a file written by 'pqtriage triage --format json'") from exc
+    from pqtriage.catalog import load_catalog
+    from pqtriage.sources.profile_file import load_profile
+
+    inventory = load_any(path, cbom_defaults)
+    threat = load_profile(profile)
+    result = triage(inventory, load_catalog(), threat, arrival_model_for(threat, as_of), as_of)
+    return review_of_result(result, path)

@@ -37,7 +37,7 @@ def _leftovers(folder: Path, name: str) -> list[str]:
 
 WRITER = """\
 import sys
-from pqtriage.output import write_atomic
+from pqtriage.cli.output import write_atomic
 text = "x" * (400 * 1024 * 1024) + "\\nEND\\n"
 print("ready", flush=True)
 write_atomic(sys.argv[1], text)
@@ -74,7 +74,7 @@ def test_killed_during_a_large_write_leaves_old_file_or_none(tmp_path: Path, pre
 def test_completed_write_leaves_no_temporary_file(tmp_path: Path) -> None:
     target = tmp_path / "out.json"
     target.write_text(PREVIOUS, encoding="utf-8")
-    code = "import sys; from pqtriage.output import write_atomic; write_atomic(sys.argv[1], 'new\\n')"
+    code = "import sys; from pqtriage.cli.output import write_atomic; write_atomic(sys.argv[1], 'new\\n')"
     done = subprocess.run([sys.executable, "-c", code, str(target)], check=False, cwd=ROOT, env=CHILD_ENV)
     assert done.returncode == 0
     assert target.read_text(encoding="utf-8") == "new\n"
@@ -83,7 +83,7 @@ def test_completed_write_leaves_no_temporary_file(tmp_path: Path) -> None:
 
 def test_permissions_are_those_of_a_plain_write(tmp_path: Path) -> None:
     sys.path.insert(0, str(ROOT))
-    from pqtriage.output import write_atomic
+    from pqtriage.cli.output import write_atomic
 
     fresh = tmp_path / "fresh.md"
     write_atomic(fresh, "new\n")
@@ -131,7 +131,7 @@ WRITES = [
     re.compile(r"\bos\.fdopen\([^)]*['\"][wax+]"),
 ]
 ALLOWED: dict[str, str] = {
-    "pqtriage/output.py": "write_atomic itself: the one place that writes",
+    "pqtriage/cli/output.py": "write_atomic itself: the one place that writes",
 }
 """Files allowed to write, each with its reason."""
 
@@ -146,7 +146,7 @@ def test_every_file_write_goes_through_write_atomic() -> None:
             code = line.split("#", 1)[0]
             if any(pattern.search(code) for pattern in WRITES):
                 offenders.append(f"{relative}:{number}: {line.strip()}")
-    assert offenders == [], "write through pqtriage.output.write_atomic:\n" + "\n".join(offenders)
+    assert offenders == [], "write through pqtriage.cli.output.write_atomic:\n" + "\n".join(offenders)
 
 
 def test_the_scan_catches_a_direct_write(tmp_path: Path) -> None:

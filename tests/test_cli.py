@@ -9,7 +9,8 @@ from pathlib import Path
 
 import pytest
 
-from pqtriage.cli import ResultFormatChoice, main, result_formats
+from pqtriage.cli import main
+from pqtriage.cli.common import ResultFormatChoice, result_formats
 
 ROOT = Path(__file__).resolve().parents[1]
 DEMO = str(ROOT / "inventories" / "demo.yaml")

@@ -10,7 +10,8 @@ from pathlib import Path
 import pytest
 import yaml
 
-from pqtriage.cli import ResultFormatChoice, main, result_formats
+from pqtriage.cli import main
+from pqtriage.cli.common import ResultFormatChoice, result_formats
 from pqtriage.sources.schema import json_schema
 from tests.sources.cbom_example import cbom_text
 

@@ -18,7 +18,7 @@ the reason and the quantum attack class (Shor) still reported.
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING, Any, cast
+from typing import Any, Protocol, cast
 
 from pqtriage.catalog.spec import (
     QUANTUM_ATTACKS,
@@ -30,9 +30,6 @@ from pqtriage.catalog.spec import (
 )
 from pqtriage.catalog.strength import cap_status, join_notes, worst_status
 
-if TYPE_CHECKING:  # pragma: no cover
-    from pqtriage.catalog.resolve import Catalog
-
 TLS13_NOTE = (
     "TLS 1.3 suite: the name carries no key exchange; the negotiated group decides "
     "(list the group as its own use)"
@@ -41,10 +38,28 @@ DEFAULT_PRF_HASH = "SHA256"
 """Suites without a hash token (CCM) use the SHA-256 PRF (RFC 5246 §5; RFC 6655 §3)."""
 
 
+class SuiteParts(Protocol):
+    """What the suite grammar asks of the catalog (pqtriage.catalog.resolve.Catalog has it)."""
+
+    def fixed(self, name: str) -> AlgorithmSpec:
+        """A fixed spec by catalog name or alias."""
+        ...
+
+    def family_part(
+        self, family: str, key_size: int | None, curve: str | None, purpose: str
+    ) -> Resolution:
+        """Resolve a family (RSA, FFDH, ECDH ...) with a use's parameters, for a composite."""
+        ...
+
+    def suite_replacements(self) -> dict[str, str]:
+        """Replacement texts for a whole cipher suite."""
+        ...
+
+
 class SuiteParser:
     """Decomposes TLS cipher suite names using the catalog's token tables."""
 
-    def __init__(self, tokens: dict[str, Any], catalog: Catalog, path: str) -> None:
+    def __init__(self, tokens: dict[str, Any], catalog: SuiteParts, path: str) -> None:
         # Suite names are matched in upper case (TLS_DH_anon_... is written with a lower-case part).
         self.tokens = {
             key: (

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import re
 import unicodedata
+from xml.sax.saxutils import escape, quoteattr
 
 _INVISIBLE = re.compile(
     "[\x00-\x08\x0b-\x1f\x7f-\x9f\u200b-\u200f\u202a-\u202e\u2060-\u2069\ufeff\n\t\r]"
@@ -16,6 +17,10 @@ _INVISIBLE = re.compile(
 _MD_SPECIAL = re.compile(r"([\\`*_{}\[\]()#+!|~>])")
 _MD_IN_HTML = re.compile(r"[\\*_\[\]~]")
 _MD_LEADING = re.compile(r"^(\s*)([-=:]|\d+[.)])")
+_CONTROL = re.compile(r"[\x00-\x1f\x7f-\x9f]")
+_PLAN_MD_SPECIALS = re.compile(r"([\\`*_\[\]#!|~])")
+_PLAN_MD_CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f]")
+_NOT_XML = re.compile(r"[\x00-\x08\x0b\x0c\x0e-\x1f\x7f-\x9f\ud800-\udfff\ufffe\uffff]")
 
 
 def _visible(match: re.Match[str]) -> str:
@@ -70,3 +75,30 @@ def csv_cell(text: object) -> str:
     if value and value[0] in "=+-@\t\r":
         return "'" + value
     return value
+
+
+def control_escapes(text: str) -> str:
+    """C0 and C1 control characters shown as ``\\xNN`` (the plan's terminal view)."""
+    return _CONTROL.sub(lambda m: f"\\x{ord(m.group()):02x}", text)
+
+
+def md_escape(text: str) -> str:
+    """Escape text for Markdown (tables included): specials, HTML and line breaks (the plan section)."""
+    text = _PLAN_MD_CONTROL.sub(lambda m: f"\\x{ord(m.group()):02x}", text)
+    text = " ".join(text.split())
+    text = text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
+    return _PLAN_MD_SPECIALS.sub(r"\\\1", text)
+
+
+def _xml_clean(text: str) -> str:
+    return _NOT_XML.sub(lambda m: f"\\x{ord(m.group()):02x}", " ".join(text.split()))
+
+
+def xml_text(text: str) -> str:
+    """Text for an XML (SVG) element: escaped, one line, characters XML 1.0 forbids as ``\\xNN``."""
+    return escape(_xml_clean(text))
+
+
+def xml_attr(text: str) -> str:
+    """A quoted XML (SVG) attribute value, cleaned like :func:`xml_text`."""
+    return quoteattr(_xml_clean(text))

@@ -13,7 +13,7 @@ import functools
 import math
 
 from pqtriage.catalog.spec import AlgorithmSpec, Resolution
-from pqtriage.model.arrival import ArrivalModel
+from pqtriage.model.arrival_model import ArrivalModel
 from pqtriage.model.inventory import CryptoUse, Purpose, System
 from pqtriage.model.profile import ThreatProfile, date_of, decimal_year
 from pqtriage.model.verdict import SEVERITY, UseAssessment, Verdict

@@ -6,7 +6,7 @@ import datetime as dt
 from dataclasses import dataclass
 
 from pqtriage.catalog.spec import AlgorithmSpec
-from pqtriage.model.arrival import ArrivalModel
+from pqtriage.model.arrival_model import ArrivalModel
 from pqtriage.model.inventory import Inventory
 from pqtriage.model.mosca import use_verdict
 from pqtriage.model.profile import ThreatProfile

@@ -11,7 +11,7 @@ import math
 from typing import Protocol
 
 from pqtriage.catalog.spec import AlgorithmSpec, Resolution
-from pqtriage.model.arrival import ArrivalModel
+from pqtriage.model.arrival_model import ArrivalModel
 from pqtriage.model.inventory import CRITICALITY_ORDER, EXPOSURE_ORDER, CryptoUse, Inventory, System
 from pqtriage.model.mosca import evaluate_use
 from pqtriage.model.profile import ThreatProfile

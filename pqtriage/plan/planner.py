@@ -1,7 +1,7 @@
 """Build a migration plan: deadlines, schedule, checks and fixes for every system.
 
 Pure: candidates, policies and settings in, a :class:`Plan` out. The formatters
-(view, markdown, jsonout, svg) only read a Plan.
+(pqtriage.formats: table, markdown, json and svg views of a plan) only read a Plan.
 """
 
 from __future__ import annotations
@@ -101,6 +101,17 @@ class SystemPlan:
     """Every missed date with the fixes that would help."""
     on_critical_path: bool
     """True when the system is on the plan's critical path."""
+
+
+def plan_status(system: SystemPlan) -> str:
+    """Short status word of a system's plan: misses deadline, late start, undetermined, on time."""
+    if system.meets_deadlines is False:
+        return "misses deadline"
+    if system.meets_start_by is False:
+        return "late start"
+    if system.meets_deadlines is None:
+        return "undetermined"
+    return "on time"
 
 
 @dataclass(frozen=True)

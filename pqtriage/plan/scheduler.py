@@ -59,6 +59,32 @@ UNLIMITED = Capacity()
 """No capacity limit: only dependencies and vendor readiness constrain the plan."""
 
 
+def parse_capacity(text: str | None) -> Capacity:
+    """Parse a ``--capacity`` value: ``N`` (migrations in parallel) or ``Npw`` (person-weeks
+    per quarter); both may be given joined by a comma, for example ``3,40pw``. None or empty
+    means unlimited.
+
+    Raises:
+        UsageError: for anything else.
+    """
+    if text is None or not text.strip():
+        return Capacity()
+    concurrent: int | None = None
+    weeks: float | None = None
+    for part in (p.strip().lower() for p in text.split(",")):
+        try:
+            if part.endswith("pw"):
+                weeks = float(part[:-2])
+            else:
+                concurrent = int(part)
+        except ValueError as exc:
+            raise UsageError(
+                f"--capacity '{text}' is not understood",
+                hint="give N migrations in parallel (3), N person-weeks per quarter (40pw), or both (3,40pw)",
+            ) from exc
+    return Capacity(concurrent=concurrent, person_weeks_per_quarter=weeks)
+
+
 @dataclass(frozen=True)
 class Task:
     """One migration to place in the calendar."""

@@ -40,7 +40,6 @@ from pqtriage.sources.cbom_side import (
     BUILTIN_DEFAULTS,
     SIDE_SYSTEM_FIELDS,
     CbomSideFile,
-    load_side_file,
 )
 from pqtriage.sources.interface import InventorySource
 from pqtriage.sources.yaml_inventory import find_cycle
@@ -373,19 +372,3 @@ class CycloneDxSource(InventorySource):
 
     def parse(self, text: str, path: str, sha256: str | None = None) -> Inventory:
         return _BomReader(path, self.side_file).inventory(text, sha256)
-
-
-def load_inventory_with_side_file(path: str, side_file: str | None) -> Inventory:
-    """Read an inventory; a CycloneDX one gets the side file's values (``--cbom-defaults FILE``)."""
-    from pqtriage.errors import UsageError
-    from pqtriage.sources.loading import load_inventory, read_inventory_text
-
-    if side_file is None:
-        return load_inventory(path)
-    side = load_side_file(side_file)
-    text, sha256 = read_inventory_text(path)
-    source = CycloneDxSource(side)
-    if not source.accepts(text):
-        raise UsageError(f"{path} is not a CycloneDX BOM, so a CBOM side file does not apply to it",
-                         hint="drop --cbom-defaults, or give the CycloneDX JSON file")
-    return source.parse(text, path, sha256)

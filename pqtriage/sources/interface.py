@@ -9,6 +9,7 @@ from abc import ABC, abstractmethod
 
 from pqtriage.errors import InventoryError, Place
 from pqtriage.model.inventory import Inventory
+from pqtriage.yamlio import MAX_FILE_BYTES, decode_text
 
 
 class InventorySource(ABC):
@@ -46,3 +47,15 @@ def read_input(path: str, limit: int | None = None) -> tuple[bytes, str]:
     except OSError as exc:
         raise InventoryError(f"cannot read: {exc.strerror}", place=Place(path)) from exc
     return data, hashlib.sha256(data).hexdigest()
+
+
+def read_inventory_text(path: str) -> tuple[str, str]:
+    """An inventory file's text and SHA-256: bounded read, size limit, UTF-8 checks."""
+    data, sha256 = read_input(path, MAX_FILE_BYTES)
+    if len(data) > MAX_FILE_BYTES:
+        raise InventoryError(
+            f"the file is larger than {MAX_FILE_BYTES // (1024 * 1024)} MiB",
+            place=Place(path),
+            hint="split the inventory into several files",
+        )
+    return decode_text(data, path, InventoryError), sha256

@@ -2,11 +2,10 @@
 
 from __future__ import annotations
 
-from pqtriage.errors import InventoryError, Place
+from pqtriage.errors import InventoryError, UsageError
 from pqtriage.model.inventory import Inventory
-from pqtriage.sources.interface import InventorySource, read_input
+from pqtriage.sources.interface import InventorySource, read_inventory_text
 from pqtriage.sources.yaml_inventory import YamlInventorySource
-from pqtriage.yamlio import MAX_FILE_BYTES, decode_text
 
 
 def registered_sources() -> list[InventorySource]:
@@ -22,18 +21,6 @@ def registered_sources() -> list[InventorySource]:
     return sources
 
 
-def read_inventory_text(path: str) -> tuple[str, str]:
-    """An inventory file's text and SHA-256: bounded read, size limit, UTF-8 checks."""
-    data, sha256 = read_input(path, MAX_FILE_BYTES)
-    if len(data) > MAX_FILE_BYTES:
-        raise InventoryError(
-            f"the file is larger than {MAX_FILE_BYTES // (1024 * 1024)} MiB",
-            place=Place(path),
-            hint="split the inventory into several files",
-        )
-    return decode_text(data, path, InventoryError), sha256
-
-
 def load_inventory(path: str) -> Inventory:
     """Read an inventory file in any supported format (recognised by content, not name)."""
     text, sha256 = read_inventory_text(path)
@@ -41,3 +28,19 @@ def load_inventory(path: str) -> Inventory:
         if source.accepts(text):
             return source.parse(text, path, sha256)  # type: ignore[call-arg]
     raise InventoryError("no reader accepts this file", hint="give a pqtriage YAML inventory or a CycloneDX JSON file")  # pragma: no cover
+
+
+def load_inventory_with_side_file(path: str, side_file: str | None) -> Inventory:
+    """Read an inventory; a CycloneDX one gets the side file's values (``--cbom-defaults FILE``)."""
+    if side_file is None:
+        return load_inventory(path)
+    from pqtriage.sources.cbom import CycloneDxSource
+    from pqtriage.sources.cbom_side import load_side_file
+
+    side = load_side_file(side_file)
+    text, sha256 = read_inventory_text(path)
+    source = CycloneDxSource(side)
+    if not source.accepts(text):
+        raise UsageError(f"{path} is not a CycloneDX BOM, so a CBOM side file does not apply to it",
+                         hint="drop --cbom-defaults, or give the CycloneDX JSON file")
+    return source.parse(text, path, sha256)

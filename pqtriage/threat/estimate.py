@@ -1,7 +1,7 @@
 """The orchestrator: one :class:`Estimate` per AlgorithmSpec, every number with its working.
 
 Shor targets go through :mod:`shor` then :mod:`surface_code`; Grover targets through
-:mod:`grover`; the arrival comes from an :class:`~pqtriage.threat.arrival.ResourceArrivalModel`.
+:mod:`grover`; the arrival comes from an :class:`~pqtriage.threat.resource_arrival.ResourceArrivalModel`.
 Numbers that do not apply are None, never zero.
 """
 
@@ -10,10 +10,10 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from pqtriage.catalog.spec import AlgorithmSpec
-from pqtriage.threat.arrival import ArrivalRow, ResourceArrivalModel
 from pqtriage.threat.grover import break_even_oracle_operations, grover_resources
 from pqtriage.threat.methods import MethodData, load_method_data
 from pqtriage.threat.parameters import ThreatParameters
+from pqtriage.threat.resource_arrival import ArrivalRow, ResourceArrivalModel
 from pqtriage.threat.shor import logical_resources, select_method
 from pqtriage.threat.surface_code import physical_resources
 

@@ -13,7 +13,7 @@ from typing import Any
 
 import pytest
 
-from pqtriage.formats.cbom_format import CbomFormat
+from pqtriage.formats.cbom.triage import CbomFormat
 from pqtriage.pipeline import run_triage
 from tests.formats.interop_helpers import AS_OF, triaged
 

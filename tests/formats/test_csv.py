@@ -6,7 +6,7 @@ import csv
 import io
 from pathlib import Path
 
-from pqtriage.formats.csv_format import COLUMNS, CsvFormat
+from pqtriage.formats.csv.triage import COLUMNS, CsvFormat
 from tests.formats.interop_helpers import triaged
 
 

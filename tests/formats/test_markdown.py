@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from pqtriage.formats.markdown import render_report
+from pqtriage.formats.markdown.triage import render_report
 from tests.formats.test_table import small_result
 
 HERE = Path(__file__).parent

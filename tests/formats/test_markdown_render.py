@@ -11,8 +11,8 @@ from html.parser import HTMLParser
 
 import pytest
 
-from pqtriage.formats.markdown import render_report
-from pqtriage.model.arrival import SharedArrival
+from pqtriage.formats.markdown.triage import render_report
+from pqtriage.model.arrival_model import SharedArrival
 from pqtriage.model.inventory import CryptoUse, Inventory, Purpose, System
 from pqtriage.model.triage import triage
 from pqtriage.sources.profile_file import parse_profile

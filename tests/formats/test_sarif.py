@@ -10,7 +10,7 @@ import json
 from pathlib import Path
 from typing import Any
 
-from pqtriage.formats.sarif_format import SarifFormat
+from pqtriage.formats.sarif.triage import SarifFormat
 from pqtriage.model.verdict import Verdict
 from tests.formats.interop_helpers import INVENTORY, line_of, triaged
 

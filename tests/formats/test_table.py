@@ -16,8 +16,8 @@ from pathlib import Path
 from rich.console import Console
 
 from pqtriage.catalog import load_catalog
-from pqtriage.formats.table import terminal_view
-from pqtriage.model.arrival import SharedArrival
+from pqtriage.formats.table.triage import terminal_view
+from pqtriage.model.arrival_model import SharedArrival
 from pqtriage.model.triage import triage
 from pqtriage.model.verdict import TriageResult
 from pqtriage.sources.loading import load_inventory

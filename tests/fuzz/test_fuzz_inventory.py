@@ -23,12 +23,12 @@ from rich.console import Console
 
 from pqtriage.catalog import load_catalog
 from pqtriage.errors import PqtriageError
-from pqtriage.formats.cbom_format import CbomFormat
-from pqtriage.formats.csv_format import CsvFormat
-from pqtriage.formats.json_format import JsonFormat
-from pqtriage.formats.markdown import render_report
-from pqtriage.formats.sarif_format import SarifFormat
-from pqtriage.formats.table import terminal_view
+from pqtriage.formats.cbom.triage import CbomFormat
+from pqtriage.formats.csv.triage import CsvFormat
+from pqtriage.formats.json.triage import JsonFormat
+from pqtriage.formats.markdown.triage import render_report
+from pqtriage.formats.sarif.triage import SarifFormat
+from pqtriage.formats.table.triage import terminal_view
 from pqtriage.model.inventory import Inventory
 from pqtriage.model.triage import triage
 from pqtriage.pipeline import arrival_model_for

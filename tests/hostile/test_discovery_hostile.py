@@ -5,7 +5,7 @@ Every case puts one bad file (or one hostile loopback peer) beside a good one an
 - exactly one summary line names the bad place (``path``, ``path#blockN``, ``path#lineN`` or
   the probe target) with the expected words, and the good one is still in the inventory;
 - the documented exit code: scan 0 when everything was read (skips are notes), 1 when
-  something could not be read; probe 1 when a target failed (pqtriage/commands/discovery.py);
+  something could not be read; probe 1 when a target failed (pqtriage/sources/scan/result.py);
 - never a ``Traceback``, and no private-key material in stdout or stderr;
 - the budgets of tests/hostile/test_inventory_hostile.py: 4 s of CPU time beyond the start-up of
   the same command on good input only, and 200 MB of peak memory. A probe's waiting is not CPU

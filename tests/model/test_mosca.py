@@ -10,7 +10,7 @@ import datetime as dt
 
 import pytest
 
-from pqtriage.model.arrival import SharedArrival
+from pqtriage.model.arrival_model import SharedArrival
 from pqtriage.model.inventory import CryptoUse, Inventory, Purpose, System
 from pqtriage.model.triage import triage
 from pqtriage.model.verdict import Verdict

@@ -10,11 +10,11 @@ import pytest
 from plan_helpers import ECDH_P256, UNKNOWN, candidate
 from rich.console import Console
 
+from pqtriage.cli.plan import run_plan
 from pqtriage.errors import PlanError, UsageError
-from pqtriage.plan.command import parse_capacity, run_plan
-from pqtriage.plan.markdown import md_escape
+from pqtriage.formats.text import md_escape
 from pqtriage.plan.policies import select_policies
-from pqtriage.plan.scheduler import Capacity
+from pqtriage.plan.scheduler import Capacity, parse_capacity
 
 D = datetime.date
 HOSTILE = "Pay|roll *x* [bold]red[/bold] <script>alert(1)</script> \x1b[31m"

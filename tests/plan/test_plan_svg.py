@@ -16,10 +16,10 @@ import pytest
 from plan_helpers import ECDH_P256, RSA_2048_KEY_TRANSPORT, RSA_2048_SIGNATURE, candidate
 from png_reader import pixel, read_png
 
+from pqtriage.formats.svg.plan import COLOURS, plan_svg
 from pqtriage.plan.planner import Plan, build_plan
 from pqtriage.plan.policies import select_policies
 from pqtriage.plan.scheduler import Capacity
-from pqtriage.plan.svg import COLOURS, plan_svg
 
 D = datetime.date
 NS = {"svg": "http://www.w3.org/2000/svg"}

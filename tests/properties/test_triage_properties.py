@@ -26,12 +26,12 @@ from hypothesis import strategies as st
 from rich.console import Console
 
 from pqtriage.catalog import load_catalog
-from pqtriage.formats.cbom_format import CbomFormat
-from pqtriage.formats.csv_format import CsvFormat
-from pqtriage.formats.json_format import JsonFormat
-from pqtriage.formats.markdown import render_report
-from pqtriage.formats.sarif_format import SarifFormat
-from pqtriage.formats.table import terminal_view
+from pqtriage.formats.cbom.triage import CbomFormat
+from pqtriage.formats.csv.triage import CsvFormat
+from pqtriage.formats.json.triage import JsonFormat
+from pqtriage.formats.markdown.triage import render_report
+from pqtriage.formats.sarif.triage import SarifFormat
+from pqtriage.formats.table.triage import terminal_view
 from pqtriage.model.inventory import Criticality, CryptoUse, Exposure, Inventory, Purpose, System
 from pqtriage.model.mosca import evaluate_use
 from pqtriage.model.triage import rank_key, triage

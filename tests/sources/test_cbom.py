@@ -10,8 +10,8 @@ import pytest
 
 from pqtriage.errors import InventoryError, UsageError
 from pqtriage.model.inventory import Exposure, Purpose
-from pqtriage.sources.cbom import CycloneDxSource, load_inventory_with_side_file
-from pqtriage.sources.loading import load_inventory
+from pqtriage.sources.cbom import CycloneDxSource
+from pqtriage.sources.loading import load_inventory, load_inventory_with_side_file
 from tests.sources.cbom_example import CBOM, cbom_text, line_of_bom_ref
 
 
@@ -103,7 +103,7 @@ def test_unknown_algorithms_are_unassessed_uses(tmp_path: Path) -> None:
     import datetime as dt
 
     from pqtriage.catalog import load_catalog
-    from pqtriage.model.arrival import SharedArrival
+    from pqtriage.model.arrival_model import SharedArrival
     from pqtriage.model.triage import triage
     from pqtriage.model.verdict import Verdict
     from pqtriage.sources.profile_file import load_profile

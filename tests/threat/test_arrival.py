@@ -9,9 +9,9 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from pqtriage.errors import ProfileError, UsageError
-from pqtriage.model.arrival import ArrivalModel
-from pqtriage.threat.arrival import ResourceArrivalModel
+from pqtriage.model.arrival_model import ArrivalModel
 from pqtriage.threat.parameters import ThreatParameters
+from pqtriage.threat.resource_arrival import ResourceArrivalModel
 from tests.threat.helpers import cipher, curve, ffdh, hash_, rsa
 
 DEFAULT = ResourceArrivalModel()

@@ -7,8 +7,8 @@ import json
 import pytest
 
 from pqtriage.catalog.spec import Resolution
+from pqtriage.cli.estimate import estimate_command
 from pqtriage.errors import EXIT_OK, UsageError
-from pqtriage.threat.command import estimate_command
 from tests.threat.helpers import cipher, curve, rsa
 from tests.threat.test_view import render
 

@@ -10,12 +10,13 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from pqtriage.formats.table.side_by_side import side_by_side
 from pqtriage.model.profile import decimal_year
 from pqtriage.sources.profile_file import load_profile
-from pqtriage.threat.arrival import ResourceArrivalModel
 from pqtriage.threat.estimate import estimate
 from pqtriage.threat.parameters import ThreatParameters
-from pqtriage.threat.table import TableContext, compact_names, group_estimates, side_by_side
+from pqtriage.threat.resource_arrival import ResourceArrivalModel
+from pqtriage.threat.side_by_side import TableContext, compact_names, group_estimates
 from tests.threat.helpers import cipher, curve, ffdh, hash_, rsa
 from tests.threat.test_view import _small, render
 
@@ -129,7 +130,7 @@ def test_years_of_the_reference_task_match_the_survey() -> None:
 
 def test_the_real_catalog_fits_100_columns_without_truncation() -> None:
     from pqtriage.catalog import load_catalog
-    from pqtriage.threat.command import estimate_command
+    from pqtriage.cli.estimate import estimate_command
 
     catalog = load_catalog()
     view, _ = estimate_command(

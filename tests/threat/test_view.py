@@ -9,9 +9,10 @@ import math
 import pytest
 from rich.console import Console, RenderableType
 
-from pqtriage.threat.arrival import ArrivalRow
+from pqtriage.formats.json.estimate import to_json_dict
+from pqtriage.formats.table.estimate import compact_hours, compact_qubits, working_view
 from pqtriage.threat.estimate import Estimate, estimate
-from pqtriage.threat.view import compact_hours, compact_qubits, to_json_dict, working_view
+from pqtriage.threat.resource_arrival import ArrivalRow
 from tests.threat.helpers import cipher, hash_, rsa
 
 JSON_FIELDS = (
@@ -141,7 +142,7 @@ def test_compact_hours(hours: float, label: str) -> None:
 @pytest.mark.parametrize("spec", [rsa(2048), cipher(128), hash_("SHA-256", 256, "collision")])
 def test_json_has_the_fields_and_nulls_not_zeros(spec: object) -> None:
     from pqtriage.sources.profile_file import load_profile
-    from pqtriage.threat.arrival import ResourceArrivalModel
+    from pqtriage.threat.resource_arrival import ResourceArrivalModel
 
     model = ResourceArrivalModel(profile=load_profile("survey-2025-upper"), as_of_year=2026.25)
     result = to_json_dict(estimate(spec, arrival_model=model))  # type: ignore[arg-type]

@@ -13,7 +13,7 @@ from pathlib import Path
 import pytest
 import yaml
 
-from pqtriage.commands.discovery import probe_command
+from pqtriage.cli.probe import probe_command
 from pqtriage.sources.probe.ssh import describe_kexinit
 from tests.sources.probe import servers
 

@@ -14,7 +14,7 @@ import pytest
 import yaml
 from cryptography.hazmat.backends.openssl import backend
 
-from pqtriage.commands.discovery import probe_command
+from pqtriage.cli.probe import probe_command
 from pqtriage.errors import UsageError
 from pqtriage.sources.probe.targets import parse_target
 from tests.sources.probe import servers

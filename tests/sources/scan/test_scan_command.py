@@ -14,7 +14,7 @@ import yaml
 from cryptography.hazmat.primitives import serialization
 from cryptography.hazmat.primitives.asymmetric import ec, ed25519
 
-from pqtriage.commands.discovery import scan_command
+from pqtriage.cli.scan import scan_command
 from pqtriage.errors import UsageError
 from tests.sources import material as m
 

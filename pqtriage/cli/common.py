@@ -1,0 +1,197 @@
+"""What the commands share: option help texts, the choices and what each maps to, output.
+
+Imported when the app is assembled (also for ``pqtriage --help``), so at module level it
+imports only typer and the errors; everything heavier is imported inside the functions.
+"""
+
+from __future__ import annotations
+
+import sys
+from enum import Enum
+from typing import Any, Optional
+
+import typer
+
+from pqtriage.errors import EXIT_FINDINGS, EXIT_OK, UsageError
+
+PROFILE_HELP = "Threat profile: a shipped name (survey-2025-upper, survey-2025-lower) or a YAML file."
+AS_OF_HELP = "Date treated as today (YYYY-MM-DD), for reproducible reports."
+CBOM_DEFAULTS_HELP = "For a CycloneDX input: YAML side file with shelf-life, migration time and other values a CBOM cannot carry."
+POLICY_HELP = ("Policy timeline to check (repeatable): nist-ir-8547, cnsa2, uk-ncsc, eu-roadmap, au-ism, "
+               "ca-roadmap, bsi, nsm-10. Added to those the inventory names.")
+CAPACITY_HELP = "Migrations in parallel (3), person-weeks per quarter (40pw), or both (3,40pw)."
+
+
+class ResultFormatChoice(str, Enum):
+    """--format values of triage."""
+
+    table = "table"
+    json = "json"
+    markdown = "markdown"
+    csv = "csv"
+    sarif = "sarif"
+    cbom = "cbom"
+
+
+class VerdictChoice(str, Enum):
+    """--fail-on values, from most to least urgent."""
+
+    classically_broken = "classically-broken"
+    exposed = "exposed"
+    unassessed = "unassessed"
+    within_margin = "within-margin"
+    quantum_resistant = "quantum-resistant"
+
+
+class DiscoveryFormat(str, Enum):
+    """--format values of scan and probe."""
+
+    yaml = "yaml"
+    json = "json"
+
+
+class GroupByChoice(str, Enum):
+    """--group-by values of scan."""
+
+    folder = "folder"
+    file = "file"
+    subject = "subject"
+    host = "host"
+
+
+class EstimateFormat(str, Enum):
+    """--format values of estimate."""
+
+    text = "text"
+    json = "json"
+
+
+class PlanFormat(str, Enum):
+    """--format values of plan."""
+
+    table = "table"
+    markdown = "markdown"
+    json = "json"
+
+
+class PlanPeriod(str, Enum):
+    """--period values of plan."""
+
+    year = "year"
+    quarter = "quarter"
+
+
+class DiffFormat(str, Enum):
+    """--format values of diff."""
+
+    table = "table"
+    markdown = "markdown"
+    json = "json"
+
+
+def result_formats() -> dict[str, Any]:
+    """Every triage --format choice mapped to its formatter (None = terminal table)."""
+    from pqtriage.formats.cbom.triage import CbomFormat
+    from pqtriage.formats.csv.triage import CsvFormat
+    from pqtriage.formats.json.triage import JsonFormat
+    from pqtriage.formats.markdown.triage import MarkdownFormat
+    from pqtriage.formats.sarif.triage import SarifFormat
+
+    return {
+        ResultFormatChoice.table.value: None,
+        ResultFormatChoice.json.value: JsonFormat(),
+        ResultFormatChoice.markdown.value: MarkdownFormat(),
+        ResultFormatChoice.csv.value: CsvFormat(),
+        ResultFormatChoice.sarif.value: SarifFormat(),
+        ResultFormatChoice.cbom.value: CbomFormat(),
+    }
+
+
+def console(stderr: bool = False) -> Any:
+    """A rich console for the terminal (stdout, or stderr for summaries)."""
+    from rich.console import Console
+
+    return Console(stderr=stderr, highlight=False, soft_wrap=False)
+
+
+def plain_text(renderable: Any) -> str:
+    """A terminal view as plain text at 100 columns, for -o FILE."""
+    from io import StringIO
+
+    from rich.console import Console
+
+    buffer = StringIO()
+    Console(file=buffer, width=100, no_color=True, color_system=None).print(renderable)
+    return buffer.getvalue()
+
+
+def to_file(output: Optional[str]) -> bool:
+    """Whether -o names a file ('-' and no -o mean stdout)."""
+    return bool(output and output != "-")
+
+
+def emit(text: str, output: Optional[str]) -> None:
+    """Write to -o FILE atomically, or to stdout."""
+    if to_file(output):
+        from pqtriage.cli.output import write_atomic
+
+        write_atomic(str(output), text)
+    else:
+        sys.stdout.write(text)
+        sys.stdout.flush()
+
+
+def echo(text: str, output: Optional[str]) -> None:
+    """Write to -o FILE atomically, or echo to stdout (ending in one newline)."""
+    if to_file(output):
+        from pqtriage.cli.output import write_atomic
+
+        write_atomic(str(output), text)
+    else:
+        typer.echo(text, nl=not text.endswith("\n"))
+
+
+def fail_code(result: Any, fail_on: Optional[VerdictChoice]) -> int:
+    """Exit code for --fail-on: 1 if any system's verdict is at or above it, else 0."""
+    if fail_on is None:
+        return EXIT_OK
+    from pqtriage.model.verdict import SEVERITY, Verdict
+
+    threshold = SEVERITY[Verdict(fail_on.value)]
+    worst = max((SEVERITY[i.verdict] for i in result.items), default=-1)
+    return EXIT_FINDINGS if worst >= threshold else EXIT_OK
+
+
+def chart_path_for(output: str) -> str:
+    """The timeline chart's file name beside a Markdown file: report.md -> report-timeline.svg."""
+    from pathlib import Path
+
+    path = Path(output)
+    return str(path.with_name(f"{path.stem}-timeline.svg"))
+
+
+def write_discovery(result: Any, output: Optional[str]) -> Any:
+    """Write a scan's or probe's inventory to -o FILE (atomically); the result names the file."""
+    if output is None:
+        return result
+    from dataclasses import replace
+
+    from pqtriage.cli.output import write_atomic
+
+    try:
+        write_atomic(output, result.text)
+    except OSError as error:
+        raise UsageError(
+            f"cannot write {output} ({error.strerror})", hint="check the folder exists"
+        ) from error
+    return replace(result, written=output)
+
+
+def finish_discovery(result: Any) -> None:
+    """Print a scan's or probe's inventory (unless written) and summary, then exit with its code."""
+    text = result.text
+    if result.written is None:
+        sys.stdout.write(text)
+    for line in result.summary:
+        sys.stderr.write(line.rstrip("\n") + "\n")
+    raise typer.Exit(result.exit_code)

@@ -1,0 +1,40 @@
+"""`pqtriage diff`: what changed between two reviews (inventories or JSON results)."""
+
+from __future__ import annotations
+
+import typer
+
+from pqtriage.cli.common import DiffFormat, console, echo, plain_text, to_file
+
+
+def diff(
+    old: str = typer.Argument(..., help="Earlier review: an inventory or a 'triage --format json' result."),
+    new: str = typer.Argument(..., help="Later review: an inventory or a 'triage --format json' result."),
+    output_format: DiffFormat = typer.Option(DiffFormat.table, "--format", "-f", help="table, markdown or json."),
+    output: str | None = typer.Option(None, "--output", "-o", help="Write to this file instead of stdout."),
+    profile: str | None = typer.Option(None, "--profile", help="Threat profile for inventories (not for JSON results)."),
+    as_of: str | None = typer.Option(None, "--as-of", help="Date treated as today for inventories (YYYY-MM-DD)."),
+    cbom_defaults: str | None = typer.Option(None, "--cbom-defaults", help="CBOM side file (shelf-life, migration time) for CycloneDX inputs."),
+) -> None:
+    """Compare two reviews: systems migrated, improved, worsened, new and removed."""
+    from pqtriage.model.diff import compare
+    from pqtriage.pipeline import load_review, parse_as_of
+
+    date = parse_as_of(as_of)
+    result = compare(load_review(old, profile, date, cbom_defaults),
+                     load_review(new, profile, date, cbom_defaults))
+    if output_format is DiffFormat.markdown:
+        from pqtriage.formats.markdown.diff import markdown_section
+
+        echo(markdown_section(result), output)
+    elif output_format is DiffFormat.json:
+        from pqtriage.formats.json.diff import render_json
+
+        echo(render_json(result), output)
+    else:
+        from pqtriage.formats.table.diff import terminal_view
+
+        if to_file(output):
+            echo(plain_text(terminal_view(result)), output)
+        else:
+            console().print(terminal_view(result))

@@ -1,0 +1,53 @@
+"""`pqtriage triage`: rank the inventory's systems by post-quantum exposure."""
+
+from __future__ import annotations
+
+from typing import Optional
+
+import typer
+
+from pqtriage.cli.common import (
+    AS_OF_HELP,
+    CBOM_DEFAULTS_HELP,
+    PROFILE_HELP,
+    ResultFormatChoice,
+    VerdictChoice,
+    console,
+    emit,
+    fail_code,
+    plain_text,
+    result_formats,
+    to_file,
+)
+
+
+def triage_command(
+    inventory: str = typer.Argument(..., help="Inventory file (pqtriage YAML or CycloneDX JSON)."),
+    output_format: ResultFormatChoice = typer.Option(ResultFormatChoice.table, "--format", "-f", help="Output format."),
+    output: Optional[str] = typer.Option(None, "--output", "-o", help="Write to this file instead of stdout."),
+    profile: Optional[str] = typer.Option(None, "--profile", help=PROFILE_HELP),
+    as_of: Optional[str] = typer.Option(None, "--as-of", help=AS_OF_HELP),
+    top: Optional[int] = typer.Option(None, "--top", min=1, help="Show only the N most urgent systems (table)."),
+    fail_on: Optional[VerdictChoice] = typer.Option(None, "--fail-on", help="Exit 1 if any system is at or above this verdict."),
+    cbom_defaults: Optional[str] = typer.Option(None, "--cbom-defaults", help=CBOM_DEFAULTS_HELP),
+) -> None:
+    """Rank the inventory's systems by post-quantum exposure."""
+    from pqtriage.pipeline import parse_as_of, run_triage
+
+    result = run_triage(inventory, profile, parse_as_of(as_of), cbom_defaults)
+    formatter = result_formats()[output_format.value]
+    if formatter is None:
+        from pqtriage.formats.table.triage import terminal_view
+
+        view = terminal_view(result, top)
+        if to_file(output):
+            emit(plain_text(view), output)
+        else:
+            console().print(view)
+    else:
+        emit(formatter.render(result), output)
+        if to_file(output):
+            from pqtriage.formats.table.summary import summary_block
+
+            console(stderr=True).print(summary_block(result))
+    raise typer.Exit(fail_code(result, fail_on))

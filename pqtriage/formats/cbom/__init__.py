@@ -1,0 +1,1 @@
+"""CycloneDX 1.6: a triage result as a cryptography bill of materials (CBOM)."""

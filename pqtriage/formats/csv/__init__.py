@@ -1,0 +1,1 @@
+"""CSV: one row per system of a triage result, for spreadsheets."""

@@ -1,0 +1,72 @@
+"""CSV output: one row per ranked system, with a header row, safe to open in a spreadsheet.
+
+Every text cell goes through :func:`pqtriage.formats.text.csv_cell`: a cell that begins with
+``=``, ``+``, ``-``, ``@``, a tab or a carriage return gets a leading apostrophe, so a
+spreadsheet shows it as text instead of running it as a formula (OWASP, "CSV Injection").
+Numbers are written by pqtriage itself (digits, a point, a leading minus) and stay numbers.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import math
+
+from pqtriage.formats.interface import ResultFormat
+from pqtriage.formats.labels import short_replacement
+from pqtriage.formats.text import csv_cell
+from pqtriage.model.verdict import SystemAssessment, TriageResult
+
+COLUMNS: tuple[str, ...] = (
+    "rank", "system_id", "system_name", "verdict", "weakest_algorithm", "purpose",
+    "x_years", "y_years", "start_by", "exposure_probability", "margin_years",
+    "replacement", "criticality", "exposure", "owner", "assumed", "reason",
+)
+"""Header row: the ranked table's columns, then the facts a spreadsheet user filters on."""
+
+
+def _number(value: float | None, digits: int) -> str:
+    if value is None or not math.isfinite(value):
+        return ""
+    return f"{round(value, digits):g}"
+
+
+def row(item: SystemAssessment) -> list[str]:
+    """One system's cells, in COLUMNS order."""
+    weakest = item.weakest
+    spec = (weakest.deciding or weakest.spec) if weakest else None
+    algorithm = spec.name if spec else (weakest.use.algorithm if weakest else "")
+    system = item.system
+    return [
+        str(item.rank),
+        csv_cell(system.id),
+        csv_cell(system.name),
+        item.verdict.value,
+        csv_cell(algorithm),
+        weakest.use.purpose.value if weakest else "",
+        _number(weakest.x_years if weakest else system.shelf_life_years, 4),
+        _number(system.migration_years, 4),
+        item.start_by.isoformat() if item.start_by else "",
+        _number(item.exposure_probability, 4),
+        _number(item.margin_years, 2),
+        csv_cell(short_replacement(weakest.replacement) if weakest and weakest.replacement else ""),
+        system.criticality.value,
+        system.exposure.value,
+        csv_cell(system.owner or ""),
+        csv_cell(" ".join(system.assumed)),
+        csv_cell(item.reason),
+    ]
+
+
+class CsvFormat(ResultFormat):
+    """Ranked systems as RFC 4180 CSV (CRLF line ends, quoted where needed)."""
+
+    name = "csv"
+
+    def render(self, result: TriageResult) -> str:
+        buffer = io.StringIO()
+        writer = csv.writer(buffer, lineterminator="\r\n")  # RFC 4180 section 2: CRLF
+        writer.writerow(COLUMNS)
+        for item in result.items:
+            writer.writerow(row(item))
+        return buffer.getvalue()

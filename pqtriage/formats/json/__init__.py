@@ -1,0 +1,1 @@
+"""JSON: one module per view, each a JSON-ready dict and its text."""

@@ -1,0 +1,1 @@
+"""Markdown (GitHub-flavoured): the report for the compliance file and its sections, one module per view."""

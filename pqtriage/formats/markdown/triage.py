@@ -1,0 +1,275 @@
+"""The Markdown report for the compliance file (GitHub-flavoured Markdown)."""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+
+from pqtriage import __version__
+from pqtriage.formats.interface import ResultFormat
+from pqtriage.formats.labels import VERDICT_LABEL, short_replacement
+from pqtriage.formats.notes import CAUTIONS, SOURCES, assumptions, fmt_year
+from pqtriage.formats.text import markdown_code, markdown_text
+from pqtriage.model.verdict import (
+    VERDICT_MEANING,
+    SystemAssessment,
+    TriageResult,
+    UseAssessment,
+    Verdict,
+)
+
+md = markdown_text
+
+
+def _pct(value: float | None) -> str:
+    return "n/a" if value is None else f"{value:.0%}"
+
+
+def _margin(value: float | None) -> str:
+    return "n/a" if value is None else f"{value:+.1f}"
+
+
+def _date(value: object) -> str:
+    return value.isoformat() if value is not None else "n/a"  # type: ignore[attr-defined]
+
+
+def _start_by(value: object, as_of: object) -> str:
+    """A start-by date, marked overdue when it has passed."""
+    if value is None:
+        return "n/a"
+    text = value.isoformat()  # type: ignore[attr-defined]
+    if as_of is not None and value <= as_of:  # type: ignore[operator]
+        return f"{text} (overdue)"
+    return text
+
+
+def _table(header: Sequence[str], rows: Sequence[Sequence[str]]) -> list[str]:
+    lines = ["| " + " | ".join(header) + " |", "|" + "|".join("---" for _ in header) + "|"]
+    lines += ["| " + " | ".join(row) + " |" for row in rows]
+    return lines
+
+
+def _algorithm(use: UseAssessment) -> str:
+    spec = use.deciding or use.spec
+    if spec is None:
+        return md(use.use.algorithm)
+    if use.deciding is not None and use.spec is not None:
+        return f"{md(use.spec.name)} ({md(spec.name)})"
+    return md(spec.name)
+
+
+def executive_summary(result: TriageResult) -> list[str]:
+    """Counts, what is overdue and what to do first."""
+    s = result.summary
+    lines = ["## Executive summary", ""]
+    lines.append(
+        f"The inventory lists {s.systems} systems with {s.uses} cryptographic uses. "
+        f"{s.counts[Verdict.CLASSICALLY_BROKEN]} are broken or unacceptable against classical attacks today, "
+        f"{s.counts[Verdict.EXPOSED]} are exposed under Mosca's inequality at the profile's risk tolerance, "
+        f"{s.counts[Verdict.UNASSESSED]} could not be assessed, "
+        f"{s.counts[Verdict.WITHIN_MARGIN]} are quantum-vulnerable but within margin and "
+        f"{s.counts[Verdict.QUANTUM_RESISTANT]} are quantum-resistant."
+    )
+    lines.append("")
+    if s.overdue:
+        lines.append(
+            f"{len(s.overdue)} systems are overdue (their latest start date has passed or they are broken now): "
+            + ", ".join(md(i) for i in s.overdue) + "."
+        )
+        lines.append("")
+    upcoming = sorted(i.start_by for i in result.items if i.start_by and i.start_by > result.as_of)
+    if upcoming:
+        lines.append(f"Next start-by date still ahead: {upcoming[0].isoformat()}.")
+        lines.append("")
+    top = [i for i in result.items if i.verdict in (Verdict.CLASSICALLY_BROKEN, Verdict.EXPOSED)][:5]
+    if top:
+        lines.append("Migrate first:")
+        lines.append("")
+        for item in top:
+            why = item.weakest.reason if item.weakest else item.reason
+            lines.append(f"{item.rank}. {md(item.system.name)} ({md(item.system.id)}): {md(why)}")
+        lines.append("")
+    return lines
+
+
+def ranked_table(result: TriageResult) -> list[str]:
+    """The ranked table, one row per system."""
+    rows = []
+    for item in result.items:
+        weakest = item.weakest
+        rows.append([
+            str(item.rank),
+            md(item.system.id) + ("\\*" if item.system.assumed else ""),
+            _algorithm(weakest) if weakest else "(no uses)",
+            md(weakest.use.purpose.value) if weakest else "n/a",
+            f"{weakest.x_years:g}" if weakest else "n/a",
+            f"{item.system.migration_years:g}",
+            _start_by(item.start_by, result.as_of),
+            _pct(item.exposure_probability),
+            VERDICT_LABEL[item.verdict],
+            md(short_replacement(weakest.replacement if weakest else None)),
+        ])
+    lines = ["## Ranked systems", ""]
+    lines += _table(
+        ["#", "System", "Weakest use", "Purpose", "x (y)", "y (y)", "Start by", "P(exposed)", "Verdict", "Replace with"],
+        rows,
+    )
+    lines.append("")
+    lines.append("Verdicts: " + "; ".join(f"**{VERDICT_LABEL[v]}**: {VERDICT_MEANING[v]}" for v in Verdict) + ".")
+    if any(i.system.assumed for i in result.items):
+        lines.append("")
+        lines.append("\\* x or y of this system is an assumed default, not a fact from the inventory.")
+    lines.append("")
+    return lines
+
+
+def system_detail(item: SystemAssessment, as_of: object = None) -> list[str]:
+    """One system: its facts, then each use with its numbers and reason."""
+    system = item.system
+    lines = [f"### {item.rank}. {md(system.name)}", ""]
+    facts = [
+        ("Id", markdown_code(system.id)),
+        ("Verdict", f"{VERDICT_LABEL[item.verdict]} ({md(item.reason)})"),
+        ("Shelf-life x", f"{system.shelf_life_years:g} years" + (" (assumed)" if "shelf_life_years" in system.assumed else "")),
+        ("Migration y", f"{system.migration_years:g} years" + (" (assumed)" if "migration_years" in system.assumed else "")),
+        ("Exposure probability", _pct(item.exposure_probability)),
+        ("Margin", _margin(item.margin_years) + " years"),
+        ("Start by", _start_by(item.start_by, as_of)),
+        ("Criticality / exposure", f"{system.criticality.value} / {system.exposure.value}"),
+    ]
+    if system.owner:
+        facts.append(("Owner", md(system.owner)))
+    if system.depends_on:
+        facts.append(("Depends on", ", ".join(markdown_code(d) for d in system.depends_on)))
+    if system.description:
+        facts.append(("Description", md(system.description)))
+    if system.notes:
+        facts.append(("Notes", md(system.notes)))
+    if system.source:
+        facts.append(("Source", markdown_code(str(system.source))))
+    lines += [f"- {name}: {value}" for name, value in facts]
+    lines.append("")
+    rows = []
+    for use in item.uses:
+        spec = use.deciding or use.spec
+        rows.append([
+            _algorithm(use),
+            md(use.use.purpose.value),
+            str(spec.classical_bits) if spec and spec.classical_bits is not None else "n/a",
+            spec.quantum_attack if spec else "n/a",
+            f"{use.x_years:g}",
+            fmt_year(use.crqc_year),
+            _pct(use.exposure_probability),
+            _margin(use.margin_years),
+            VERDICT_LABEL[use.verdict],
+            md(use.replacement or "none needed" if use.verdict != Verdict.UNASSESSED else "check by hand"),
+            md(use.reason),
+            markdown_code(str(use.use.source)) if use.use.source else "n/a",
+        ])
+    if rows:
+        lines += _table(
+            ["Algorithm", "Purpose", "Classical bits", "Quantum attack", "x", "z", "P(exposed)",
+             "Margin", "Verdict", "Replacement", "Reason", "Source"],
+            rows,
+        )
+        lines.append("")
+    notes = sorted({a for use in item.uses for a in use.assumptions})
+    if notes:
+        lines.append("Assumptions for this system: " + "; ".join(md(n) for n in notes) + ".")
+        lines.append("")
+    return lines
+
+
+def method_section(result: TriageResult) -> list[str]:
+    """Mosca's inequality, how z is set, and the arrivals used."""
+    profile = result.profile
+    lines = ["## Method", ""]
+    lines.append(
+        "Mosca's inequality: a use is exposed when x + y > z, where x is how long the protected data "
+        "(or a signature) must stay secure, y is the time to migrate the system, and z is the time until "
+        "a cryptographically relevant quantum computer (CRQC) breaks the algorithm "
+        "(IEEE Security & Privacy 16(5), 2018; IACR ePrint 2015/1075)."
+    )
+    lines.append("")
+    if profile.deterministic:
+        lines.append(f"z is fixed by a what-if: a CRQC on 1 January {profile.crqc_year}.")
+    else:
+        lines.append(
+            f"z comes from the threat profile '{md(profile.name)}': the probability distribution of the "
+            f"year the reference task ({md(profile.reference_task)}) is first achieved, conditioned on it "
+            f"not having happened by {result.as_of.isoformat()}. The exposure probability of a use is "
+            "P(z < today + x + y); z at the risk tolerance "
+            f"({profile.risk_tolerance:.0%}) gives the margin (z - today - x - y, negative means overdue) and "
+            "the latest start date (z - x - y)."
+        )
+    lines.append("")
+    lines.append(f"Per-algorithm arrival: {md(result.arrival_model)}.")
+    lines.append("")
+    lines.append(
+        "Ranking: classical breakage first, then exposure probability, then margin, then criticality and "
+        "exposure to interception; the system id breaks ties. A system's verdict is its weakest use's."
+    )
+    lines.append("")
+    if result.arrivals:
+        lines.append("Arrivals used (z at the risk tolerance, per algorithm, and the shift against the "
+                     "reference task with its basis):")
+        lines.append("")
+        lines += _table(
+            ["Algorithm", "z (year)", "Shift (years)", "Basis"],
+            [[md(a.algorithm), fmt_year(a.crqc_year),
+              "beyond horizon" if math.isinf(a.shift_years) else f"{a.shift_years:+.1f}", md(a.basis)]
+             for a in result.arrivals],
+        )
+        lines.append("")
+    return lines
+
+
+def render_report(result: TriageResult, extra_sections: Sequence[str] = ()) -> str:
+    """The whole report. Same inputs and --as-of give the same bytes."""
+    inv = result.inventory
+    lines = [f"# Post-quantum migration triage: {md(inv.organization)}", ""]
+    lines += _table(
+        ["Field", "Value"],
+        [
+            ["As of", result.as_of.isoformat()],
+            ["Inventory", markdown_code(inv.source_path or "n/a")],
+            ["Inventory SHA-256", markdown_code(inv.source_sha256 or "n/a")],
+            ["Tool", f"pqtriage {__version__}"],
+            ["Threat profile", f"{md(result.profile.name)} ({md(result.profile.source)})"],
+            ["Risk tolerance", f"{result.profile.risk_tolerance:.0%}"],
+        ],
+    )
+    lines.append("")
+    lines.append("> **Caution.** " + md(CAUTIONS[0]) + " " + md(CAUTIONS[2]))
+    lines.append("")
+    lines += executive_summary(result)
+    lines += ranked_table(result)
+    lines += ["## System detail", ""]
+    for item in result.items:
+        lines += system_detail(item, result.as_of)
+    for section in extra_sections:
+        lines += [section.rstrip("\n"), ""]
+    lines += method_section(result)
+    lines += ["## Assumptions", ""]
+    lines += [f"- {md(a)}" for a in assumptions(result)]
+    if inv.warnings:
+        lines += [f"- Input warning: {md(w)}" for w in inv.warnings]
+    lines.append("")
+    lines += ["## Cautions", ""]
+    lines += [f"- {md(c)}" for c in CAUTIONS]
+    lines.append("")
+    lines += ["## Sources", ""]
+    lines += [f"- {md(s)}" for s in SOURCES]
+    if result.profile.source:
+        lines.append(f"- Threat profile: {md(result.profile.source)}")
+    lines.append("")
+    return "\n".join(lines)
+
+
+class MarkdownFormat(ResultFormat):
+    """GitHub-flavoured Markdown report."""
+
+    name = "markdown"
+
+    def render(self, result: TriageResult) -> str:
+        return render_report(result)

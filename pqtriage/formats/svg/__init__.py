@@ -1,0 +1,1 @@
+"""SVG: standalone charts (the plan's timeline)."""

@@ -1,0 +1,97 @@
+"""Terminal view of a triage result: the ranked table and its summary, as inert rich renderables."""
+
+from __future__ import annotations
+
+from rich import box
+from rich.console import Group, RenderableType
+from rich.table import Table
+from rich.text import Text
+
+from pqtriage.formats.labels import VERDICT_LABEL, short_replacement
+from pqtriage.formats.table.styles import VERDICT_STYLE
+from pqtriage.formats.table.summary import summary_block
+from pqtriage.formats.text import visible
+from pqtriage.model.verdict import SystemAssessment, TriageResult
+
+_PURPOSE_SHORT = {
+    "key-establishment": "kex",
+    "encryption": "enc",
+    "signature": "sig",
+    "authentication": "auth",
+    "integrity": "mac",
+}
+
+
+def _years(value: float) -> str:
+    return f"{value:g}"
+
+
+def _start_by(item: SystemAssessment, as_of: object) -> Text:
+    """The start-by date, or 'overdue' when it has passed (the JSON keeps the date)."""
+    if item.start_by is None:
+        return Text("-")
+    if item.start_by <= as_of:  # type: ignore[operator]
+        return Text("overdue", style="red")
+    return Text(item.start_by.isoformat())
+
+
+def _row(item: SystemAssessment, as_of: object) -> list[RenderableType]:
+    weakest = item.weakest
+    if weakest is None:
+        algo = Text("(no uses)")
+        x = "-"
+        replacement = "-"
+    else:
+        spec = weakest.deciding or weakest.spec
+        name = spec.name if spec else weakest.use.algorithm
+        algo = Text(visible(name))
+        algo.append(f" {_PURPOSE_SHORT[weakest.use.purpose.value]}", style="dim")
+        x = _years(weakest.x_years)
+        replacement = short_replacement(weakest.replacement)
+    probability = "-" if item.exposure_probability is None else f"{item.exposure_probability:.0%}"
+    start_by = _start_by(item, as_of)
+    system = Text(visible(item.system.id))
+    if item.system.assumed:
+        system.append("*", style="bold")
+    return [
+        str(item.rank),
+        system,
+        algo,
+        x,
+        _years(item.system.migration_years),
+        start_by,
+        probability,
+        Text(VERDICT_LABEL[item.verdict], style=VERDICT_STYLE[item.verdict]),
+        Text(visible(replacement)),
+    ]
+
+
+def ranked_table(result: TriageResult, top: int | None = None) -> Table:
+    """The ranked table: one row per system, most urgent first."""
+    table = Table(
+        title=Text(f"Post-quantum triage of {visible(result.inventory.organization)}"),
+        caption=Text(f"as of {result.as_of.isoformat()}, profile {visible(result.profile.name)}"),
+        header_style="bold",
+        box=box.SIMPLE_HEAD,
+        expand=False,
+        pad_edge=False,
+        collapse_padding=True,
+    )
+    table.add_column("#", justify="right", no_wrap=True)
+    table.add_column("System", overflow="fold", min_width=19)
+    table.add_column("Weakest use", overflow="fold", min_width=12)
+    table.add_column("x", justify="right", no_wrap=True)
+    table.add_column("y", justify="right", no_wrap=True)
+    table.add_column("Start by", no_wrap=True)
+    table.add_column("P(exp)", justify="right", no_wrap=True)
+    table.add_column("Verdict", no_wrap=True)
+    table.add_column("Replace with", overflow="fold", min_width=10)
+    items = result.items if top is None else result.items[:top]
+    for item in items:
+        table.add_row(*_row(item, result.as_of))
+    return table
+
+
+def terminal_view(result: TriageResult, top: int | None = None) -> RenderableType:
+    """Table plus summary, ready for Console.print."""
+    return Group(ranked_table(result, top), summary_block(result, top))

@@ -1,0 +1,137 @@
+"""What a discovery run (scan or probe) produced, and the step both end with.
+
+The findings are grouped into systems, targets that could not be probed kept as systems
+with no uses (unassessed in triage), the whole folded into an existing inventory
+(``--merge``) and rendered as YAML or JSON. Nothing here writes a file: the CLI writes
+the text (atomically) or prints it.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from dataclasses import dataclass
+from typing import Any
+
+import yaml
+
+from pqtriage.errors import EXIT_FINDINGS, EXIT_OK, InventoryError, Place, UsageError
+from pqtriage.sources.scan.emit import (
+    ASSUMED_SYSTEM_FIELDS,
+    DEFAULT_EXPOSURE,
+    DEFAULT_ORGANIZATION,
+    inventory_dict,
+    render,
+    slugify,
+    unique_id,
+)
+from pqtriage.sources.scan.findings import Finding, FindingKind
+from pqtriage.sources.scan.grouping import GroupBy, group_findings
+from pqtriage.sources.scan.merge import merge_inventory
+
+OUTPUT_FORMATS = ("yaml", "json")
+
+
+@dataclass(frozen=True)
+class CommandResult:
+    """What a discovery command produced."""
+
+    text: str
+    """The inventory (YAML or JSON); the CLI prints it when no output file was given."""
+    summary: list[str]
+    """Lines for stderr: counts, one line per problem, assumed defaults, merge report."""
+    exit_code: int
+    """0 when everything was read or reached, 1 otherwise."""
+    written: str | None = None
+    """Path the inventory was written to, if any."""
+
+
+def check_format(output_format: str) -> None:
+    """Refuse an output format other than yaml or json."""
+    if output_format not in OUTPUT_FORMATS:
+        raise UsageError(f"unknown format {output_format!r}", hint="use yaml or json")
+
+
+def check_years(shelf_life_years: float, migration_years: float) -> None:
+    """Refuse negative assumed years."""
+    if shelf_life_years < 0 or migration_years < 0:
+        raise UsageError("shelf-life and migration years must not be negative")
+
+
+def load_existing(merge: str) -> Any:
+    """The inventory given to --merge, as plain YAML data (an empty file is an empty inventory)."""
+    try:
+        with open(merge, encoding="utf-8") as stream:
+            document = yaml.safe_load(stream)
+    except OSError as error:
+        raise InventoryError(
+            f"cannot read the inventory to merge into ({error.strerror})",
+            place=Place(merge),
+            hint="check the path given to --merge",
+        ) from error
+    except yaml.YAMLError as error:
+        mark = getattr(error, "problem_mark", None)
+        place = Place(merge, mark.line + 1, mark.column + 1) if mark else Place(merge)
+        raise InventoryError(
+            "the inventory to merge into is not valid YAML", place=place
+        ) from error
+    if document is None:
+        document = {"version": 1, "organization": DEFAULT_ORGANIZATION, "systems": []}
+    return document
+
+
+def assumed_line(systems: int, shelf_life: float, migration: float) -> str:
+    """The summary line naming the defaults written and marked assumed."""
+    return (
+        f"assumed in {systems} systems: shelf_life_years={shelf_life:g}, "
+        f"migration_years={migration:g}, exposure={DEFAULT_EXPOSURE} (defaults a scan cannot "
+        "know, marked 'assumed'; set them in the inventory)"
+    )
+
+
+def finish_inventory(
+    findings: list[Finding],
+    group_by: GroupBy,
+    organization: str,
+    shelf_life_years: float,
+    migration_years: float,
+    merge: str | None,
+    in_scope: Callable[[str], bool],
+    output_format: str,
+    summary: list[str],
+    failed: bool,
+    system_extras: dict[str, dict[str, Any]] | None = None,
+    unreached: list[tuple[str, str]] | None = None,
+) -> CommandResult:
+    """Group the findings into systems, merge if asked, and render the inventory."""
+    groups = group_findings(findings, group_by)
+    document = inventory_dict(
+        groups, organization, shelf_life_years, migration_years, system_extras
+    )
+    if unreached and merge is None:
+        # A target that could not be probed is not dropped: it becomes a system with no
+        # uses, which triage reports as unassessed in every output. (With --merge the
+        # existing entry for it is left untouched instead.)
+        taken = {system["id"] for system in document["systems"]}
+        for target, line in unreached:
+            document["systems"].append({
+                "id": unique_id(slugify(target), taken),
+                "name": target,
+                "shelf_life_years": shelf_life_years,
+                "migration_years": migration_years,
+                "assumed": list(ASSUMED_SYSTEM_FIELDS),
+                "source": target,
+                "exposure": DEFAULT_EXPOSURE,
+                "notes": f"probe failed, not assessed: {line}",
+                "uses": [],
+            })
+    summary.append(f"{len(findings)} uses in {len(groups)} systems (grouped by {group_by.value})")
+    if groups:
+        summary.append(assumed_line(len(groups), shelf_life_years, migration_years))
+    private = sum(1 for f in findings if f.kind is FindingKind.PRIVATE_KEY)
+    if private:
+        summary.append(f"{private} private keys in plain files (type and size recorded only)")
+    if merge is not None:
+        document, report = merge_inventory(load_existing(merge), document, in_scope)
+        summary.extend(report.lines())
+    text = render(document, output_format)
+    return CommandResult(text, summary, EXIT_FINDINGS if failed else EXIT_OK)
