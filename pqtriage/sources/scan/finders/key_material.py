@@ -13,6 +13,7 @@ from pqtriage.sources.scan.finders.interface import (
     FinderResult,
 )
 from pqtriage.sources.scan.findings import FAILURE_KINDS, FindingKind, ProblemKind
+from pqtriage.sources.scan.recognise import recognise
 
 
 class KeyMaterialFinder(Finder):
@@ -24,8 +25,6 @@ class KeyMaterialFinder(Finder):
         return True  # recognition is by content, done by the readers themselves
 
     def read(self, data: bytes, path: str, context: FinderContext) -> FinderResult:
-        from pqtriage.sources.scan.scanner import recognise
-
         outcome = recognise(data, path, context.password)
         if not outcome.recognised:
             return NOT_MINE
