@@ -115,7 +115,7 @@ def scan_inventory(
     understood = result.files_with_material
     summary = [f"scan: {result.files_read} files read, {understood} understood by a finder"]
     if result.summary is not None:
-        summary.extend(result.summary.lines())
+        summary.extend(result.summary.lines({problem.place for problem in result.problems}))
     summary.extend(problem.line() for problem in result.problems)
     summary.extend(_problem_counts(result.problems))
     inventory = finish_inventory(

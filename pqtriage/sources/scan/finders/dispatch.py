@@ -62,8 +62,9 @@ class ScanSummary:
         """The tally of a finder (created on first use)."""
         return self.finders.setdefault(name, FinderTally())
 
-    def lines(self) -> list[str]:
-        """One line per finder that saw anything, then each file not understood."""
+    def lines(self, listed: set[str] | frozenset[str] = frozenset()) -> list[str]:
+        """One line per finder that saw anything, then each file not understood (except the
+        places in ``listed``, which already have a problem line of their own)."""
         lines = []
         for name, tally in self.finders.items():
             if tally.seen:
@@ -72,7 +73,11 @@ class ScanSummary:
                     f"{tally.findings} findings, {len(tally.not_understood)} not understood"
                 )
         for name, tally in self.finders.items():
-            lines += [f"{place}: not understood by {name}: {why}" for place, why in tally.not_understood]
+            lines += [
+                f"{place}: not understood by {name}: {why}"
+                for place, why in tally.not_understood
+                if place not in listed
+            ]
         if self.unclaimed:
             lines.append(f"{self.unclaimed} files held nothing any finder reads")
         return lines
