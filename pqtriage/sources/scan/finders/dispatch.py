@@ -122,11 +122,14 @@ class Dispatcher:
         self.summary = ScanSummary()
         for finder in self.finders:
             self.summary.tally(finder.name)
-        self.visited: set[str] = set()
-        self.walk_paths: set[str] = set()
-        """Real paths the walk reads."""
+        self._visited: set[str] | None = None
+        self._walk_paths: set[str] | None = None
+        self._walk_list: list[str] = []
+        self._done: list[str] = []
         self.claimed_by: dict[str, set[str]] = {}
-        """Real path -> finders that claimed it."""
+        """Real path -> finders that claimed it (plain paths until the first reference)."""
+        self.claimed_by_real = False
+        """True once paths in ``claimed_by`` are real paths (references need them)."""
         self.hints: dict[str, set[str]] = {}
         """Real path of a walked file not read yet -> finders it must go to (included fragments)."""
         self.certificate_links: dict[str, list[str]] = {}
@@ -134,11 +137,29 @@ class Dispatcher:
 
     def mark_seen(self, paths: Sequence[str]) -> None:
         """Paths the walk will read anyway: references to them are not read twice."""
-        self.walk_paths.update(os.path.realpath(path) for path in paths)
+        self._walk_list.extend(paths)
+        self._walk_paths = None
+
+    @property
+    def walk_paths(self) -> set[str]:
+        """Real paths the walk reads (resolved on first need: most scans follow no reference)."""
+        if self._walk_paths is None:
+            self._walk_paths = {os.path.realpath(path) for path in self._walk_list}
+        return self._walk_paths
+
+    @property
+    def visited(self) -> set[str]:
+        """Real paths read so far (by the walk or as references)."""
+        if self._visited is None:
+            self._visited = {os.path.realpath(path) for path in self._done}
+        return self._visited
 
     def run_file(self, data: bytes, path: str) -> tuple[list[Finding], list[ScanProblem]]:
         """All findings and problems of one file on disk, references and members included."""
-        self.visited.add(os.path.realpath(path))
+        if self._visited is None:
+            self._done.append(path)
+        else:
+            self._visited.add(os.path.realpath(path))
         findings: list[Finding] = []
         problems: list[ScanProblem] = []
         budget = ArchiveBudget(self.context.limits.max_total_bytes, self.context.limits.max_members)
@@ -160,7 +181,9 @@ class Dispatcher:
         head = data[:HEAD_BYTES]
         context = dataclasses.replace(self.context, depth=depth, budget=budget)
         claimed = False
-        real = os.path.realpath(path) if depth == 0 else path
+        real = path
+        if self.hints or self.claimed_by_real:
+            real = os.path.realpath(path) if depth == 0 else path
         hinted = self.hints.pop(real, set())
         candidates = [self.by_name[only]] if only in self.by_name else self.finders
         for finder in candidates:
@@ -179,6 +202,10 @@ class Dispatcher:
             if not result.claimed:
                 continue
             claimed = True
+            if result.references and not self.claimed_by_real:
+                self._use_real_paths()
+            if self.claimed_by_real and depth == 0:
+                real = os.path.realpath(path)
             self.claimed_by.setdefault(real, set()).add(finder.name)
             self._record(finder.name, path, result)
             findings.extend(result.findings)
@@ -219,6 +246,14 @@ class Dispatcher:
     ) -> None:
         self._run(member.data, member.name, depth + 1, None, budget, references_left,
                   findings, problems)  # fmt: skip
+
+    def _use_real_paths(self) -> None:
+        """From the first reference on, files are known by their real paths."""
+        converted: dict[str, set[str]] = {}
+        for key, names in self.claimed_by.items():
+            converted.setdefault(key if "!" in key else os.path.realpath(key), set()).update(names)
+        self.claimed_by = converted
+        self.claimed_by_real = True
 
     def link_facts(self, findings: list[Finding]) -> list[Finding]:
         """Facts that cross files: a configuration's suites take its certificate's key size."""
