@@ -28,6 +28,10 @@ class KeyMaterialFinder(Finder):
         outcome = recognise(data, path, context.password)
         if not outcome.recognised:
             return NOT_MINE
+        for password in context.passwords[1:]:  # the first did not open it: try the others
+            if not any(f.kind is FindingKind.PKCS12_ENCRYPTED for f in outcome.findings):
+                break
+            outcome = recognise(data, path, password)
         why = next(
             (
                 f"{p.kind.value}: {p.reason}"

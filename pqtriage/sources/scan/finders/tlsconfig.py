@@ -9,6 +9,7 @@ sources, so every use points at the directive that enabled it.
 
 from __future__ import annotations
 
+import dataclasses
 import os
 from dataclasses import dataclass, field
 
@@ -24,9 +25,11 @@ SERVER_CERTIFICATE_DIRECTIVES = frozenset(
 SERVER_CERTIFICATE = "server certificate"
 """Role of a reference to the server's own certificate."""
 
-#: OpenSSL 3.0's default groups (ssl/t1_lib.c, supported_groups_default), from memory; used
-#: only when a configuration names no groups, and said so in the note.
+#: OpenSSL 3.0's default groups, in its order, as OpenSSL 3.0's s_client offers them (checked
+#: against a captured ClientHello in tests/sources/scan/finders/test_traffic.py). Used only
+#: when a configuration names no groups, and said so in the note.
 OPENSSL_DEFAULT_GROUPS = ("x25519", "secp256r1", "x448", "secp521r1", "secp384r1")
+DEFAULT_GROUPS_NOTE = "no groups configured: OpenSSL 3.0's default groups assumed"
 
 
 @dataclass(frozen=True)
@@ -114,6 +117,9 @@ def settings_findings(
     base_notes = tuple(n for n in [settings.label, *settings.extra_notes] if n)
     groups = split_list(settings.groups.value) if settings.groups else []
     first_curve = groups[0] if groups else None
+    assumed_groups = settings.groups is None and settings.ciphers is not None
+    if assumed_groups:
+        first_curve = OPENSSL_DEFAULT_GROUPS[0]
     if settings.ciphers is not None:
         expansion = expand(settings.ciphers.value, context.expand_cipher_string)
         how = (
@@ -128,8 +134,9 @@ def settings_findings(
         for suite in expansion.suites:
             kx = str(table.suites.get(suite, {}).get("kx", ""))
             curve = first_curve if kx.startswith("ECDH") and first_curve else None
+            suite_notes = notes + ((DEFAULT_GROUPS_NOTE,) if curve and assumed_groups else ())
             findings.append(_use(path, settings.ciphers, suite, Purpose.ENCRYPTION, protocol,
-                                 notes, curve))  # fmt: skip
+                                 suite_notes, curve))  # fmt: skip
         for token in expansion.unknown:
             bare = token.lstrip("!-+")
             if token != bare:
@@ -157,6 +164,14 @@ def settings_findings(
         for name in groups:
             findings.append(_use(path, settings.groups, name, Purpose.KEY_ESTABLISHMENT, protocol,
                                  base_notes + (f"enabled by {settings.groups.directive}",)))  # fmt: skip
+    elif assumed_groups and settings.ciphers is not None:
+        for name in OPENSSL_DEFAULT_GROUPS:
+            finding = _use(path, settings.ciphers, name, Purpose.KEY_ESTABLISHMENT, protocol,
+                           base_notes + (DEFAULT_GROUPS_NOTE,))  # fmt: skip
+            line = settings.ciphers.line
+            findings.append(dataclasses.replace(
+                finding, source=SourceRef(path, line=line, detail=f"line{line}:default-group:{name}")
+            ))  # fmt: skip
     references = [
         Reference(
             path=resolve_path(path, cert.value),

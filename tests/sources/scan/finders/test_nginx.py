@@ -12,6 +12,7 @@ from pathlib import Path
 
 from pqtriage.catalog import load_catalog
 from pqtriage.model.inventory import Purpose
+from pqtriage.sources.scan.finders.tlsconfig import DEFAULT_GROUPS_NOTE, OPENSSL_DEFAULT_GROUPS
 from pqtriage.sources.scan.findings import FindingKind
 from tests.sources import material as m
 from tests.sources.scan.finders.tools import need, run, scan
@@ -69,8 +70,12 @@ def test_nginx_accepts_the_file_and_every_suite_is_a_use(tmp_path: Path) -> None
     assert named == ["ECDHE-RSA-AES128-GCM-SHA256", "RC4-SHA", "DES-CBC3-SHA"]
     assert all(f.key_size == 2048 for f in first if f.protocol != "TLS 1.3")
     assert all(f.source.file == str(config) for f in uses)
-    groups = [f for f in uses if f.purpose is Purpose.KEY_ESTABLISHMENT]
+    groups = [f for f in uses if f.purpose is Purpose.KEY_ESTABLISHMENT and f.source.line == 14]
     assert [g.algorithm for g in groups] == ["X25519", "prime256v1"]
+    # The second server names no groups: OpenSSL 3.0's defaults, said to be assumed.
+    assumed = [f for f in uses if f.purpose is Purpose.KEY_ESTABLISHMENT and f.source.line == 20]
+    assert [g.algorithm for g in assumed] == list(OPENSSL_DEFAULT_GROUPS)
+    assert all(DEFAULT_GROUPS_NOTE in g.notes for g in assumed)
     # Second server: HIGH:!aNULL:!MD5 as the system's OpenSSL expands it.
     expected = [
         line.split()[0]
@@ -80,7 +85,10 @@ def test_nginx_accepts_the_file_and_every_suite_is_a_use(tmp_path: Path) -> None
         ).stdout.splitlines()
         if " TLSv1.3 " not in line
     ]
-    second = [f.algorithm for f in uses if f.source.line == 20 and f.protocol != "TLS 1.3"]
+    second = [
+        f.algorithm for f in uses
+        if f.source.line == 20 and f.protocol != "TLS 1.3" and f.purpose is Purpose.ENCRYPTION
+    ]
     assert second == expected
     # The include loop ends: the fragment is read once, nginx.conf once.
     assert result.summary is not None

@@ -21,6 +21,7 @@ import pytest
 
 from pqtriage.sources.probe.targets import parse_target
 from pqtriage.sources.probe.tls import probe_tls
+from pqtriage.sources.scan.finders.tlsconfig import OPENSSL_DEFAULT_GROUPS
 from pqtriage.sources.scan.findings import FindingKind
 from pqtriage.sources.scan.scanner import scan_paths
 from tests.sources import material as m
@@ -108,6 +109,9 @@ def test_tls12_and_tls13_handshakes(tmp_path: Path) -> None:
         "ECDHE-RSA-AES128-GCM-SHA256", "TLS 1.2", 2048,
     )  # fmt: skip
     assert suite.curve == "x25519"  # OpenSSL 3.0's first default group, from ServerKeyExchange
+    # The default groups the configuration finders assume are the ones OpenSSL offers.
+    offered = next(n for n in suite.notes if n.startswith("client offered groups: "))
+    assert offered.split(": ", 1)[1].split(", ") == list(OPENSSL_DEFAULT_GROUPS)
     leaf = [f for f in result.findings if f.kind is FindingKind.CERTIFICATE_KEY]
     assert [(f.algorithm, f.key_size, f.host) for f in leaf] == [("RSA", 2048, f"127.0.0.1:{suite.host.split(':')[1]}")]  # type: ignore[union-attr]
     tls13 = [f for f in traffic if f.source.file == str(pcap13)]
