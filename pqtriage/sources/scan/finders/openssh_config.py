@@ -160,19 +160,18 @@ class OpensshConfigFinder(Finder):
                     seen.add(canonical)
                 default = defaults.lists.get(canonical) if defaults else None
                 names, how = apply_operator(value, default)
-                note = f"{how} the defaults of OpenSSH {defaults.version} ({defaults.source})" if (
+                note = f"{how} the OpenSSH {defaults.version} defaults" if (
                     defaults and value[:1] in "+-^") else (
                     f"{how} the defaults of an unstated OpenSSH version; the defaults are not listed"
                     if value[:1] in "+-^" else "")  # fmt: skip
-                notes = tuple(n for n in (f"{canonical} {value} at line {number}", note, block) if n)
+                notes = tuple(n for n in (f"{canonical} at line {number}", note, block) if n)
                 findings += [_use(path, number, name, purpose, notes, canonical) for name in names]
         if defaults is not None:
             for canonical, default_names in defaults.lists.items():
                 if canonical in seen:
                     continue
                 purpose = next(p for c, p in LISTS.values() if c == canonical)
-                note = (f"{canonical} not set: default of OpenSSH {defaults.version} "
-                        f"({defaults.source})")  # fmt: skip
+                note = f"{canonical} not set: OpenSSH {defaults.version} default"
                 findings += [
                     _use(path, 0, name, purpose, (note,), canonical) for name in default_names
                 ]

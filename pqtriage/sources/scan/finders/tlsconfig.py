@@ -122,13 +122,10 @@ def settings_findings(
         first_curve = OPENSSL_DEFAULT_GROUPS[0]
     if settings.ciphers is not None:
         expansion = expand(settings.ciphers.value, context.expand_cipher_string)
-        how = (
-            "expanded with the system's OpenSSL"
-            if expansion.method == "openssl"
-            else "expanded with the shipped OpenSSL 3.0 table"
-        )
+        how = "system OpenSSL" if expansion.method == "openssl" else "OpenSSL 3.0 table"
         notes = base_notes + (
-            f"enabled by {settings.ciphers.directive} {settings.ciphers.value.strip()}", how,
+            f"enabled by {settings.ciphers.directive} at line {settings.ciphers.line} "
+            f"(expanded by the {how})",
         ) + expansion.notes  # fmt: skip
         table = cipher_table()
         for suite in expansion.suites:
