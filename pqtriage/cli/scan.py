@@ -1,4 +1,4 @@
-"""`pqtriage scan`: find keys and certificates in files and folders; write an inventory."""
+"""`pqtriage scan`: find cryptography in files and folders; write an inventory."""
 
 from __future__ import annotations
 
@@ -65,12 +65,12 @@ def scan_command(
 
 
 def scan(
-    paths: List[str] = typer.Argument(..., help="Files and folders to scan for keys and certificates."),
+    paths: List[str] = typer.Argument(..., help="Files and folders to scan (keys, certificates, keystores, configurations, archives, source code, captures)."),
     output: Optional[str] = typer.Option(None, "--output", "-o", help="Write the inventory here (stdout if absent)."),
     output_format: DiscoveryFormat = typer.Option(DiscoveryFormat.yaml, "--format", "-f", help="yaml (an inventory) or json (same content)."),
     group_by: GroupByChoice = typer.Option(GroupByChoice.folder, "--group-by", help="How findings become systems."),
     merge: Optional[str] = typer.Option(None, "--merge", help="Fold the scan into this existing inventory (hand-written fields kept)."),
-    password_file: Optional[str] = typer.Option(None, "--password-file", help="File holding the password of encrypted PKCS#12 bundles."),
+    password_file: Optional[str] = typer.Option(None, "--password-file", help="File holding the password of encrypted PKCS#12 bundles and keys (also tried on keystores)."),
     organization: str = typer.Option("Scanned inventory", "--organization", help="Organisation name of a new inventory."),
     shelf_life: float = typer.Option(5.0, "--shelf-life", help="Assumed shelf-life x for found systems (flagged as assumed)."),
     migration_years: float = typer.Option(2.0, "--migration-years", help="Assumed migration time y (flagged as assumed)."),
@@ -82,8 +82,7 @@ def scan(
     archive_max_bytes: int = typer.Option(256 * 1024 * 1024, "--archive-max-bytes", min=0, help="Unpack at most this many bytes from one archive on disk (members and nested members together)."),
     summary_json: Optional[str] = typer.Option(None, "--summary-json", help="Also write the per-finder summary (files seen, understood, findings, not understood and why) as JSON to this file."),
 ) -> None:
-    """Find cryptography in files and folders (keys, certificates, keystores, configurations,
-    archives, source code, captured traffic); write an inventory."""
+    """Find cryptography in files and folders; write an inventory."""
     from pqtriage.sources.scan.finders.interface import ArchiveLimits
 
     finish_discovery(scan_command(
