@@ -86,6 +86,44 @@ for path in sorted(pathlib.Path(sys.argv[1]).rglob('*')):
 """
 
 
+PHASES_CODE = """\
+import json, sys, time
+started = time.perf_counter()
+from pqtriage.sources.scan.emit import inventory_dict, render
+from pqtriage.sources.scan.finders.interface import FinderContext
+from pqtriage.sources.scan.finders.openssl_cli import system_expander
+from pqtriage.sources.scan.grouping import GroupBy, group_findings
+from pqtriage.sources.scan.scanner import plan, scan_entries
+imported = time.perf_counter()
+entries, problems = plan([sys.argv[1]])
+context = FinderContext(passwords=(b'bench-pass',), expand_cipher_string=system_expander())
+result = scan_entries(entries, problems, context=context)
+scanned = time.perf_counter()
+document = inventory_dict(group_findings(list(result.findings), GroupBy.FOLDER))
+grouped = time.perf_counter()
+render(document, 'json')
+done = time.perf_counter()
+print(json.dumps({'imports': imported - started, 'finders': scanned - imported,
+                  'systems and uses': grouped - scanned, 'JSON text': done - grouped,
+                  'uses': len(result.findings)}))
+"""
+"""Where the scan's time goes, in one process (imports, finders, inventory, output)."""
+
+
+def _phases(files: Path) -> dict[str, float]:
+    import json
+    import subprocess
+
+    from bench.common import ROOT, child_env
+
+    done = subprocess.run([sys.executable, "-c", PHASES_CODE, str(files)], cwd=ROOT, env=child_env(),
+                          capture_output=True, text=True, check=False, timeout=900)
+    try:
+        return dict(json.loads(done.stdout))
+    except ValueError:
+        return {}
+
+
 def _tls_pcap() -> bytes:
     """A pcap of one synthetic TLS 1.3 exchange on loopback (ClientHello, ServerHello)."""
     import dpkt
@@ -202,6 +240,12 @@ def measure(args: argparse.Namespace) -> list[Figure]:
                             "floor s": f"{floor.seconds:.2f}", "ratio": f"{ratio:.2f}x",
                             "peak MiB": f"{run.peak_rss_bytes / 2**20:.0f}"})
     figure.met = ratio <= GOAL_RATIO
+    phases = _phases(files)
+    if phases:
+        uses = int(phases.pop("uses"))
+        figure.notes.append(
+            f"where the time goes at {count:,} files ({uses:,} uses, {uses / count:.0f} per file): "
+            + ", ".join(f"{name} {seconds:.2f} s" for name, seconds in phases.items()))
     figure.notes.append(
         "kinds: " + ", ".join(f"{kind} {share}%" for kind, share in SHARE.items())
         + "; the scan also describes every certificate (names, validity, extensions), expands "

@@ -134,3 +134,16 @@ def test_finder_case(case: Case, tmp_path: Path, scan_startup: float) -> None:
         assert "nginx: 3 seen, 3 understood" in outcome.stderr, outcome.stderr
     if name == "sshd-include-loop":
         assert "openssh config: 1 seen, 1 understood" in outcome.stderr, outcome.stderr
+
+
+def test_member_names_cannot_reach_the_terminal(tmp_path: Path) -> None:
+    """An archive member named with an escape code, itself a damaged zip: its line shows the
+    escape as text (pqtriage.formats.text.visible), never the ESC byte."""
+    folder = good_folder(tmp_path)
+    bad = folder / "evil.zip"
+    with zipfile.ZipFile(bad, "w") as archive:
+        archive.writestr("evil\x1b[31mred.zip", b"PK\x03\x04 not a zip")
+    outcome = run_cli("scan", str(folder), "--format", "json")
+    assert_clean(outcome)
+    assert "\x1b" not in outcome.stderr
+    assert f"{bad}!/evil\\x1b[31mred.zip: not understood: damaged archive" in outcome.stderr

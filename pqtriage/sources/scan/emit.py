@@ -125,6 +125,10 @@ def render(document: Mapping[str, Any], output_format: str = "yaml") -> str:
     )
 
 
+_USE_ENCODER = json.JSONEncoder(ensure_ascii=False, check_circular=False)
+"""One encoder for every use (json.dumps with options builds a new encoder on each call)."""
+
+
 def render_json(document: Mapping[str, Any]) -> str:
     """JSON with one use per line: indented like ``indent=2`` down to the uses, each use on one
     line. The same data; the uses go through the C encoder, so large scans (hundreds of
@@ -151,7 +155,8 @@ def render_json(document: Mapping[str, Any]) -> str:
             lines.append(f"      {json.dumps(key)}: {value(item, 3)}" + ("" if last else ","))
         if isinstance(uses, list) and uses:
             lines.append('      "uses": [')
-            lines.append(",\n".join("        " + json.dumps(use, ensure_ascii=False) for use in uses))
+            encode = _USE_ENCODER.encode
+            lines.append(",\n".join(["        " + encode(use) for use in uses]))
             lines.append("      ]")
         elif "uses" in system:
             lines.append(f'      "uses": {value(uses, 3)}')

@@ -61,8 +61,15 @@ def group_key(finding: Finding, rule: GroupBy) -> tuple[str, str]:
 def group_findings(findings: list[Finding] | tuple[Finding, ...], rule: GroupBy) -> list[Group]:
     """Group findings by a rule; groups sorted by key, findings kept in scan order."""
     buckets: dict[tuple[str, str], list[Finding]] = {}
+    folders: dict[str, tuple[str, str]] = {}  # the folder rule's key per file (most uses share)
     for finding in findings:
-        buckets.setdefault(group_key(finding, rule), []).append(finding)
+        if rule is GroupBy.FOLDER and not _is_probe(finding):
+            key = folders.get(finding.source.file)
+            if key is None:
+                key = folders[finding.source.file] = group_key(finding, rule)
+        else:
+            key = group_key(finding, rule)
+        buckets.setdefault(key, []).append(finding)
     return [
         Group(key=key, label=label, findings=tuple(items))
         for (label, key), items in sorted(
