@@ -17,6 +17,7 @@ import warnings
 from typing import Any
 
 from cryptography import x509
+from cryptography.exceptions import UnsupportedAlgorithm
 from cryptography.hazmat.primitives import serialization
 
 from pqtriage.model.inventory import Purpose, SourceRef
@@ -99,22 +100,52 @@ class KeystoreFinder(Finder):
 def _describe(store: Any, path: str, kind: str, opened: bool) -> list[Finding]:
     findings: list[Finding] = []
     note = (f"{kind} keystore", "opened with the password" if opened else "integrity not checked")
-    for alias, entry in sorted(getattr(store, "private_keys", {}).items()):
-        findings += _private_entry(entry, path, alias, note)
-    for alias, entry in sorted(getattr(store, "certs", {}).items()):
-        findings += _certificate(entry.cert, path, f"{alias}", note)
-    for alias, entry in sorted(getattr(store, "secret_keys", {}).items()):
-        if not entry.is_decrypted():
-            findings.append(_unread(path, alias, "secret key entry, protected"))
-            continue
-        name = _SECRET_NAMES.get(str(entry.algorithm).upper().replace("-", ""), str(entry.algorithm))
-        findings.append(Finding(
-            source=SourceRef(path, detail=alias), kind=FindingKind.PRIVATE_KEY, algorithm=name,
-            purpose=Purpose.ENCRYPTION if "HMAC" not in name else Purpose.INTEGRITY,
-            key_size=int(entry.key_size) if entry.key_size else None,
-            notes=note + ("secret key entry: algorithm and size only",),
-        ))  # fmt: skip
+    for alias, entry in sorted(store.entries.items()):
+        findings += _entry(entry, path, str(alias), note)
     return findings
+
+
+def _entry(entry: Any, path: str, alias: str, note: tuple[str, ...]) -> list[Finding]:
+    """Findings of one entry, whichever store type it comes from (JKS/JCEKS or BKS/UBER)."""
+    name = type(entry).__name__
+    if name == "BksSealedKeyEntry":  # BKS: a key sealed with its own password
+        if not entry.is_decrypted():
+            return [_unread(path, f"{alias}.key", "sealed key entry, protected")]
+        inner = _entry(entry.nested, path, alias, note)
+        if getattr(entry.nested, "cert_chain", None):
+            return inner  # the chain travels with the nested key entry
+        return inner + _chain(entry, path, alias, note)
+    if name in ("PrivateKeyEntry",) or name == "BksKeyEntry" and entry.type == 0:
+        return _private_entry(entry, path, alias, note)
+    if name == "BksKeyEntry" and entry.type == 1:
+        try:
+            key = serialization.load_der_public_key(bytes(entry.encoded))
+        except (ValueError, TypeError, UnsupportedAlgorithm):
+            return [_unread(path, f"{alias}.key", "public key entry in an unknown format")]
+        return describe_key(key, SourceRef(path, detail=f"{alias}.key"), False, note)
+    if name in ("TrustedCertEntry", "BksTrustedCertEntry"):
+        return _certificate(entry.cert, path, alias, note)
+    if name in ("SecretKeyEntry", "BksKeyEntry"):
+        if not entry.is_decrypted():
+            return [_unread(path, alias, "secret key entry, protected")]
+        algorithm = str(getattr(entry, "algorithm", "unknown"))
+        spelled = _SECRET_NAMES.get(algorithm.upper().replace("-", ""), algorithm)
+        size = getattr(entry, "key_size", None) or 8 * len(getattr(entry, "encoded", b"") or b"") or None
+        return [Finding(
+            source=SourceRef(path, detail=alias), kind=FindingKind.PRIVATE_KEY, algorithm=spelled,
+            purpose=Purpose.ENCRYPTION if "HMAC" not in spelled else Purpose.INTEGRITY,
+            key_size=int(size) if size else None,
+            notes=note + ("secret key entry: algorithm and size only",),
+        )]  # fmt: skip
+    return [_unread(path, alias, f"entry of an unknown kind ({name})")]
+
+
+def _chain(entry: Any, path: str, alias: str, note: tuple[str, ...]) -> list[Finding]:
+    found: list[Finding] = []
+    for index, item in enumerate(getattr(entry, "cert_chain", ()) or (), 1):
+        der = item.cert if hasattr(item, "cert") else item[1]  # BKS entries or JKS (type, der)
+        found += _certificate(der, path, f"{alias}.chain{index}", note)
+    return found
 
 
 def _private_entry(entry: Any, path: str, alias: str, note: tuple[str, ...]) -> list[Finding]:
@@ -123,13 +154,11 @@ def _private_entry(entry: Any, path: str, alias: str, note: tuple[str, ...]) -> 
         try:
             key = serialization.load_der_private_key(bytes(entry.pkey_pkcs8), None)
             found += describe_key(key, SourceRef(path, detail=f"{alias}.key"), True, note)
-        except (ValueError, TypeError):
+        except (ValueError, TypeError, UnsupportedAlgorithm):
             found.append(_unread(path, f"{alias}.key", "private key entry in an unknown format"))
     else:
         found.append(_unread(path, f"{alias}.key", "private key entry, protected"))
-    for index, (_, der) in enumerate(getattr(entry, "cert_chain", ()) or (), 1):
-        found += _certificate(der, path, f"{alias}.chain{index}", note)
-    return found
+    return found + _chain(entry, path, alias, note)
 
 
 def _certificate(der: bytes, path: str, detail: str, note: tuple[str, ...]) -> list[Finding]:

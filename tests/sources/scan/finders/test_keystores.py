@@ -106,6 +106,27 @@ def test_pyjks_store_round_trip(tmp_path: Path) -> None:
     assert facts["trust.jks#root"] == ("certificate-key", "RSA", 2048, None)
 
 
+def test_bks_made_by_keytool_with_bouncy_castle(tmp_path: Path) -> None:
+    """A BKS store written by keytool through the Bouncy Castle provider (libbcprov-java)."""
+    keytool = need("keytool", "default-jdk-headless")
+    provider = Path("/usr/share/java/bcprov.jar")
+    if not provider.exists():
+        pytest.skip("Bouncy Castle is absent (apt-get install libbcprov-java)")
+    store = tmp_path / "app.bks"
+    run(keytool, "-genkeypair", "-alias", "droid", "-keyalg", "RSA", "-keysize", "2048",
+        "-dname", "CN=app.example.test", "-storetype", "BKS", "-providerpath", str(provider),
+        "-providerclass", "org.bouncycastle.jce.provider.BouncyCastleProvider",
+        "-keystore", str(store), "-storepass", SECRETS[0], "-keypass", SECRETS[0], "-noprompt")
+    facts = _facts(_scan(tmp_path, SECRETS[0].encode()))
+    assert facts == {
+        "app.bks#droid.key": ("private-key", "RSA", 2048, None),
+        "app.bks#droid.chain1": ("certificate-key", "RSA", 2048, None),
+        "app.bks#droid.chain1.signature": ("certificate-signature", "RSA", 2048, None),
+    }
+    locked = _scan(tmp_path)
+    assert _facts(locked) == {"app.bks#store": ("keystore-encrypted", "unknown", None, None)}
+
+
 def test_bks_without_password_is_reported_present(tmp_path: Path) -> None:
     (tmp_path / "android.bks").write_bytes(b"\x00\x00\x00\x02" + b"\x00\x00\x00\x14" + bytes(40))
     result = _scan(tmp_path)
