@@ -140,6 +140,13 @@ def expand_with_table(text: str, table: CipherTable | None = None) -> Expansion:
 
 
 def expand(text: str, system: Any = None) -> Expansion:
+    """Expand with the system's OpenSSL when given (a callable string -> names or None);
+    the same string in many files is expanded once per expander."""
+    return _expand(text, system)
+
+
+@functools.lru_cache(maxsize=1024)
+def _expand(text: str, system: Any) -> Expansion:
     """Expand with the system's OpenSSL when given (a callable string -> names or None).
 
     Suites OpenSSL 3.0 no longer builds, named in the string, are added from the table
