@@ -167,8 +167,9 @@ class OpensshConfigFinder(Finder):
                 notes = tuple(n for n in (f"{canonical} at line {number}", note, block) if n)
                 findings += [_use(path, number, name, purpose, notes, canonical) for name in names]
         if defaults is not None:
+            unused = _unused_lists(text, program)
             for canonical, default_names in defaults.lists.items():
-                if canonical in seen:
+                if canonical in seen or canonical in unused:
                     continue
                 purpose = next(p for c, p in LISTS.values() if c == canonical)
                 note = f"{canonical} not set: OpenSSH {defaults.version} default"
@@ -176,6 +177,25 @@ class OpensshConfigFinder(Finder):
                     _use(path, 0, name, purpose, (note,), canonical) for name in default_names
                 ]
         return FinderResult(claimed=True, findings=tuple(findings), references=tuple(references))
+
+
+def _unused_lists(text: str, program: str) -> set[str]:
+    """Default lists that are not used with this file's settings, so not listed as uses:
+    hostbased algorithms unless HostbasedAuthentication is yes (off by default, sshd_config(5)
+    and ssh_config(5)), public-key algorithms when PubkeyAuthentication is no, and on a server
+    the CA signature algorithms unless TrustedUserCAKeys names user CAs."""
+    values: dict[str, str] = {}
+    for line in text.splitlines():
+        keyword, value = _split(line)
+        values.setdefault(keyword.lower(), value.lower())
+    unused = set()
+    if values.get("hostbasedauthentication") != "yes":
+        unused.add("HostbasedAcceptedAlgorithms")
+    if values.get("pubkeyauthentication") == "no":
+        unused.add("PubkeyAcceptedAlgorithms")
+    if program == "sshd" and values.get("trustedusercakeys", "none") == "none":
+        unused.add("CASignatureAlgorithms")
+    return unused
 
 
 def _use(

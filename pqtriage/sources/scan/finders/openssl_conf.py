@@ -65,7 +65,7 @@ class OpensslConfFinder(Finder):
             setattr(block, field, Setting(value, number, key.strip()))
         findings = []
         for block in sections.values():
-            found, refs = settings_findings(path, block, context)
+            found, refs = settings_findings(path, block, context, pre_shared_keys=True)
             findings += found
             references += refs
         return FinderResult(claimed=True, findings=tuple(findings), references=tuple(references))

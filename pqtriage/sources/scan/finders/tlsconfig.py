@@ -109,9 +109,14 @@ def _allows_tls13(settings: TlsSettings) -> bool:
 
 
 def settings_findings(
-    path: str, settings: TlsSettings, context: FinderContext
+    path: str, settings: TlsSettings, context: FinderContext, pre_shared_keys: bool = False
 ) -> tuple[list[Finding], list[Reference]]:
-    """Findings for one block: each enabled suite, each group, and certificate references."""
+    """Findings for one block: each enabled suite, each group, and certificate references.
+
+    PSK and SRP suites are listed only for programs that can be given pre-shared keys or SRP
+    verifiers (``pre_shared_keys``): a web server or proxy without them never negotiates one
+    (OpenSSL offers them only with a PSK or SRP callback, SSL_CTX_set_psk_server_callback(3)).
+    """
     findings: list[Finding] = []
     protocol = _protocol_text(settings)
     base_notes = tuple(n for n in [settings.label, *settings.extra_notes] if n)
@@ -128,7 +133,14 @@ def settings_findings(
             f"(expanded by the {how})",
         ) + expansion.notes  # fmt: skip
         table = cipher_table()
-        for suite in expansion.suites:
+        suites = list(expansion.suites)
+        if not pre_shared_keys:
+            kept = [n for n in suites if str(table.suites.get(n, {}).get("au")) not in _SHARED_SECRET]
+            if len(kept) < len(suites):
+                notes += (f"{len(suites) - len(kept)} PSK/SRP suites not listed: this program "
+                          "has no pre-shared keys or SRP verifiers",)  # fmt: skip
+            suites = kept
+        for suite in suites:
             kx = str(table.suites.get(suite, {}).get("kx", ""))
             curve = first_curve if kx.startswith("ECDH") and first_curve else None
             suite_notes = notes + ((DEFAULT_GROUPS_NOTE,) if curve and assumed_groups else ())
@@ -192,6 +204,10 @@ def resolve_path(config_path: str, named: str) -> str:
 
 
 _SSH_RSA = ("ssh-rsa", "rsa-sha2-")
+_SHARED_SECRET = frozenset({"PSK", "SRP"})
+#: Certificate key algorithm -> the suite authentication (``Au=``) it can serve, per
+#: openssl-ciphers(1): EdDSA certificates serve the aECDSA suites.
+_SERVES = {"RSA": "RSA", "ECDSA": "ECDSA", "DSA": "DSS", "Ed25519": "ECDSA", "Ed448": "ECDSA"}
 
 
 def fill_from_certificates(findings: list[Finding], links: dict[str, list[str]]) -> list[Finding]:
@@ -203,6 +219,11 @@ def fill_from_certificates(findings: list[Finding], links: dict[str, list[str]])
     """
     if not links:
         return findings
+    key_types: dict[str, set[str]] = {}
+    for finding in findings:
+        if finding.kind is FindingKind.CERTIFICATE_KEY and finding.algorithm in _SERVES:
+            key_types.setdefault(os.path.realpath(finding.source.file), set()).add(finding.algorithm)
+    findings = _only_servable(findings, links, key_types)
     rsa_sizes: dict[str, tuple[int, str]] = {}
     key_kinds = (FindingKind.CERTIFICATE_KEY, FindingKind.PRIVATE_KEY, FindingKind.SSH_KEY,
                  FindingKind.PUBLIC_KEY)  # fmt: skip
@@ -241,3 +262,33 @@ def replace_finding(finding: Finding, key_size: int, note: str) -> Finding:
     import dataclasses
 
     return dataclasses.replace(finding, key_size=key_size, notes=finding.notes + (note,))
+
+
+def _only_servable(
+    findings: list[Finding], links: dict[str, list[str]], key_types: dict[str, set[str]]
+) -> list[Finding]:
+    """Drop TLS 1.2 suites whose authentication no certificate of the configuration serves.
+
+    A server with only an RSA certificate never negotiates an ECDSA or DSS suite; the suites
+    kept say so. Configurations whose certificates could not all be read keep every suite.
+    """
+    serves: dict[str, set[str]] = {}
+    for config, certificates in links.items():
+        if certificates and all(c in key_types for c in certificates):
+            serves[config] = {_SERVES[a] for c in certificates for a in key_types[c]}
+    if not serves:
+        return findings
+    table = cipher_table()
+    result = []
+    for finding in findings:
+        allowed = serves.get(finding.source.file)
+        au = str(table.suites.get(finding.algorithm, {}).get("au", ""))
+        if allowed is not None and finding.kind is FindingKind.CONFIG_SETTING and au:
+            if au in ("RSA", "ECDSA", "DSS") and au not in allowed:
+                continue
+            if au in ("RSA", "ECDSA", "DSS"):
+                finding = dataclasses.replace(finding, notes=finding.notes + (
+                    "suites for other certificate types not listed (certificates: "
+                    + ", ".join(sorted(allowed)) + ")",))  # fmt: skip
+        result.append(finding)
+    return result

@@ -138,3 +138,16 @@ def test_first_value_wins_and_match_blocks_are_named(tmp_path: Path) -> None:
 def test_operator_without_defaults() -> None:
     assert apply_operator("-ssh-rsa", None) == ([], "removed from")
     assert apply_operator("^a,b", ("b", "c")) == (["a", "b", "c"], "put before")
+
+
+def test_default_lists_of_unused_methods_are_not_uses(tmp_path: Path) -> None:
+    """sshd_config(5): HostbasedAuthentication defaults to no; CASignatureAlgorithms only
+    verifies certificates (TrustedUserCAKeys on a server)."""
+    config = tmp_path / "sshd_config"
+    config.write_text("# OpenSSH 9.2\n")
+    keywords = {f.source.detail.split(":")[1] for f in scan(config).findings}  # type: ignore[union-attr]
+    assert keywords == {"KexAlgorithms", "Ciphers", "MACs", "HostKeyAlgorithms",
+                        "PubkeyAcceptedAlgorithms"}  # fmt: skip
+    config.write_text("# OpenSSH 9.2\nHostbasedAuthentication yes\nTrustedUserCAKeys /etc/ssh/ca.pub\n")
+    keywords = {f.source.detail.split(":")[1] for f in scan(config).findings}  # type: ignore[union-attr]
+    assert {"HostbasedAcceptedAlgorithms", "CASignatureAlgorithms"} <= keywords
