@@ -119,6 +119,16 @@ def test_tls12_and_tls13_handshakes(tmp_path: Path) -> None:
         ("TLS_AES_256_GCM_SHA384", "TLS 1.3"), ("x25519", "TLS 1.3"),
     ]  # fmt: skip
     assert "client key shares: x25519" in tls13[0].notes
+    # The same packets written as pcapng (dpkt's pcapng writer) give the same uses.
+    import dpkt
+
+    as_ng = tmp_path / "captures/tls13.pcapng"
+    with open(pcap13, "rb") as source, open(as_ng, "wb") as target:
+        writer = dpkt.pcapng.Writer(target)
+        for stamp, frame in dpkt.pcap.Reader(source):
+            writer.writepkt(frame, ts=stamp)
+    again = [f for f in scan_paths([str(as_ng)]).findings if f.kind is FindingKind.TRAFFIC]
+    assert [(f.algorithm, f.protocol) for f in again] == [(f.algorithm, f.protocol) for f in tls13]
 
 
 def test_hybrid_ml_kem_group_is_seen(tmp_path: Path) -> None:
