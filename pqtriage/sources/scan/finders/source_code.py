@@ -8,8 +8,9 @@ what it chooses and where its parameters are. Literal algorithm names and key si
 from the call's arguments, or from constants assigned once in the same file (``BITS = 1024``,
 ``#define BITS 1024``, ``static final int BITS``); when they are not literals the use is
 reported with "parameters not resolved". Each use is ``file#lineN:rule`` with its line and
-column. What cannot be seen: imports under another name, values computed at run time or
-passed in from another file, and algorithms chosen by configuration.
+column. Names bound by Python imports and Rust ``use`` declarations are followed. What
+cannot be seen: re-exports through other modules, JavaScript and Go import aliases, values
+computed at run time or passed in from another file, and algorithms chosen by configuration.
 """
 
 from __future__ import annotations
@@ -61,6 +62,7 @@ _STRINGS = {"string", "string_literal", "interpreted_string_literal", "raw_strin
             "template_string"}  # fmt: skip
 _NUMBERS = {"integer", "decimal_integer_literal", "int_literal", "number", "number_literal",
             "integer_literal"}  # fmt: skip
+_IMPORTS = {"import_statement", "import_from_statement", "use_declaration"}
 _WRAPPERS = {"parenthesized_expression", "cast_expression", "type_cast_expression",
              "expression_list", "reference_expression", "unary_expression"}  # fmt: skip
 UNRESOLVED = "parameters not resolved"
@@ -143,8 +145,14 @@ class _File:
         self.root = root
         self.nodes = list(_walk(root))
         self.constants: dict[str, Any] = {}
+        self.aliases: dict[str, list[str]] = {}
+        """Local name -> the segments it stands for (``from hashlib import md5``,
+        ``import hashlib as h``, Rust ``use ring::agreement::X25519``)."""
         seen: set[str] = set()
         for node in self.nodes:
+            if node.type in _IMPORTS:
+                _collect_aliases(node, self.aliases)
+                continue
             pair = _assignment(node)
             if pair is None:
                 continue
@@ -192,6 +200,50 @@ class _File:
         if node.type in _NAMES:
             return _segments(_text(node))[-1]
         return None
+
+
+def _collect_aliases(node: Any, aliases: dict[str, list[str]]) -> None:
+    """Names an import or ``use`` declaration binds, with what each stands for."""
+    if node.type == "import_statement":  # import a.b as c
+        for child in node.named_children:
+            if child.type == "aliased_import":
+                target = _segments(_text(child.child_by_field_name("name")))
+                aliases[_text(child.child_by_field_name("alias"))] = target
+        return
+    if node.type == "import_from_statement":  # from a.b import c, d as e
+        module = _segments(_text(node.child_by_field_name("module_name")))
+        for child in node.named_children[1:]:
+            if child.type == "dotted_name":
+                aliases[_segments(_text(child))[-1]] = module + _segments(_text(child))
+            elif child.type == "aliased_import":
+                name = _segments(_text(child.child_by_field_name("name")))
+                aliases[_text(child.child_by_field_name("alias"))] = module + name
+        return
+    _rust_use(node.child_by_field_name("argument"), [], aliases)
+
+
+def _rust_use(node: Any, prefix: list[str], aliases: dict[str, list[str]]) -> None:
+    if node is None:
+        return
+    if node.type in ("identifier", "scoped_identifier"):
+        path = prefix + _segments(_text(node))
+        aliases[path[-1]] = path
+    elif node.type == "use_as_clause":
+        path = prefix + _segments(_text(node.child_by_field_name("path")))
+        aliases[_text(node.child_by_field_name("alias"))] = path
+    elif node.type == "scoped_use_list":
+        base = prefix + _segments(_text(node.child_by_field_name("path")))
+        _rust_use(node.child_by_field_name("list"), base, aliases)
+    elif node.type == "use_list":
+        for child in node.named_children:
+            _rust_use(child, prefix, aliases)
+
+
+def _expanded(segments: list[str], aliases: dict[str, list[str]]) -> list[str]:
+    """Segments with a leading imported name replaced by what it stands for."""
+    if segments and segments[0] in aliases:
+        return aliases[segments[0]] + segments[1:]
+    return segments
 
 
 def _unquote(text: str) -> str:
@@ -288,23 +340,34 @@ class SourceCodeFinder(Finder):
         wanted = _RULE_LANGUAGE.get(language, language)
         table, curves = rules()
         calls = [r for r in table if r.call and wanted in r.languages]
-        names = {r.name: r for r in table if r.name and wanted in r.languages}
+        names = {tuple(_segments(r.name)): r for r in table if r.name and wanted in r.languages}
         findings: list[Finding] = []
+        # Nodes are keyed by their span and type (the binding's node objects are not stable).
+        skip = {_key(n) for top in file.nodes if top.type in _IMPORTS for n in _walk(top)}
         for node in file.nodes:
+            if skip and _key(node) in skip:
+                continue
             if node.type in _CALLS and calls:
-                segments = _segments(_callee(node))
+                segments = _expanded(_segments(_callee(node)), file.aliases)
                 for rule in calls:
                     want = _segments(rule.call or "")
                     if segments[-len(want) :] == want:
                         findings += _call_findings(rule, node, file, path, curves, context)
                         break
             elif node.type in _NAMES and names:
-                named = names.get(re.sub(r"\s+", "", _text(node)))
+                written = _expanded(_segments(_text(node)), file.aliases)
+                named = next((names[tuple(written[k:])] for k in range(len(written))
+                              if tuple(written[k:]) in names), None)  # fmt: skip
                 if named is not None and not _inside_same_name(node, named):
                     findings += [_finding(named, node, path, str(named.get("algorithm")),
                                           size=named.get("size"), curve=named.get("curve"),
                                           protocol=named.get("protocol"))]  # fmt: skip
+                    skip.update(_key(n) for n in _walk(node))  # its parts are not uses
         return FinderResult(claimed=True, findings=tuple(findings))
+
+
+def _key(node: Any) -> tuple[int, int, str]:
+    return node.start_byte, node.end_byte, node.type
 
 
 def _inside_same_name(node: Any, rule: Rule) -> bool:

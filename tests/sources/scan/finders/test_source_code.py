@@ -131,3 +131,25 @@ def test_samples_are_real_code(tmp_path: Path) -> None:
     env = {**os.environ, "GOCACHE": str(tmp_path / "gocache"), "GOPATH": str(tmp_path / "gopath"),
            "GO111MODULE": "off"}  # fmt: skip
     _ok(go, "vet", str(SAMPLES / "ledger.go"), env=env)
+
+
+ALIASED = [
+    ("aliases.py",
+     b"import hashlib as h\nfrom hashlib import md5 as m5, sha1\nfrom ssl import PROTOCOL_TLSv1\n"
+     b"from Crypto.PublicKey import RSA as R\nh.md5(b'')\nm5(b'')\nsha1(b'')\n"
+     b"ctx = PROTOCOL_TLSv1\nR.generate(1024)\n",
+     [(5, "MD5", None), (6, "MD5", None), (7, "SHA-1", None), (8, "unknown", None),
+      (9, "RSA", 1024)]),
+    ("aliases.rs",
+     b"use ring::agreement::X25519;\nuse md5::{Digest, Md5 as M};\nuse rustls::version;\n"
+     b"fn main() {\n    let a = &X25519;\n    let h = M::new();\n    let v = &version::TLS12;\n}\n",
+     [(5, "X25519", None), (6, "MD5", None), (7, "unknown", None)]),
+]  # fmt: skip
+
+
+@pytest.mark.parametrize(("name", "source", "expected"), ALIASED, ids=[a[0] for a in ALIASED])
+def test_imported_names_are_followed(name: str, source: bytes, expected: list[tuple[int, str, int | None]]) -> None:
+    """Python ``import ... as`` / ``from ... import`` and Rust ``use`` bind names the rules know;
+    the import lines themselves are not uses."""
+    found = SourceCodeFinder().read(source, name, FinderContext()).findings
+    assert [(f.source.line, f.algorithm, f.key_size) for f in found] == expected
