@@ -28,6 +28,21 @@ def _progress(total: int, enabled: bool | None) -> Iterator[Callable[[str], None
         yield lambda _path: bar.advance(task)
 
 
+KEYSTORE_PASSWORD_VARIABLE = "PQTRIAGE_KEYSTORE_PASSWORD"
+
+
+def _keystore_passwords(given: Optional[List[str]]) -> tuple[bytes, ...]:
+    """Passwords from the command line, then the environment variable (taken whole: a password
+    may hold spaces). None of them is ever shown."""
+    import os
+
+    passwords = [p.encode() for p in given or ()]
+    variable = os.environ.get(KEYSTORE_PASSWORD_VARIABLE)
+    if variable:
+        passwords.append(variable.encode())
+    return tuple(passwords)
+
+
 def scan_command(
     paths: list[str],
     output: str | None = None,
@@ -75,7 +90,7 @@ def scan(
     shelf_life: float = typer.Option(5.0, "--shelf-life", help="Assumed shelf-life x for found systems (flagged as assumed)."),
     migration_years: float = typer.Option(2.0, "--migration-years", help="Assumed migration time y (flagged as assumed)."),
     max_file_size: int = typer.Option(16 * 1024 * 1024, "--max-file-size", help="Skip files larger than this many bytes."),
-    keystore_password: Optional[List[str]] = typer.Option(None, "--keystore-password", envvar="PQTRIAGE_KEYSTORE_PASSWORD", help="Password to try on keystores and PKCS#12 bundles (repeatable; also from PQTRIAGE_KEYSTORE_PASSWORD). Prefer the file or the variable: a command line is visible to other users."),
+    keystore_password: Optional[List[str]] = typer.Option(None, "--keystore-password", help="Password to try on keystores and PKCS#12 bundles (repeatable). The variable PQTRIAGE_KEYSTORE_PASSWORD is tried too, whole. Prefer the variable or --keystore-password-file: a command line is visible to other users."),
     keystore_password_file: Optional[str] = typer.Option(None, "--keystore-password-file", help="File whose first line is a keystore password."),
     openssh_version: Optional[str] = typer.Option(None, "--openssh-version", help="OpenSSH version whose default algorithm lists apply to sshd_config/ssh_config files that state none (e.g. 9.2)."),
     archive_depth: int = typer.Option(4, "--archive-depth", min=0, help="Open archives nested at most this deep (0: do not open archives)."),
@@ -89,7 +104,7 @@ def scan(
         list(paths), output=output, output_format=output_format.value, group_by=group_by.value,
         merge=merge, password_file=password_file, organization=organization,
         shelf_life_years=shelf_life, migration_years=migration_years, max_file_bytes=max_file_size,
-        keystore_passwords=tuple(p.encode() for p in keystore_password or ()),
+        keystore_passwords=_keystore_passwords(keystore_password),
         keystore_password_file=keystore_password_file, openssh_version=openssh_version,
         archive_limits=ArchiveLimits(max_depth=archive_depth, max_total_bytes=archive_max_bytes),
         summary_json=summary_json,
