@@ -119,3 +119,27 @@ def test_random_bytes_under_every_name_never_raise(name: str, data: bytes) -> No
     for finder in default_finders():
         if finder.wants(name, data[:4096]):
             _check(finder.read(data, name, CONTEXT))
+
+
+@given(st.binary(max_size=600), st.binary(max_size=600), st.booleans())
+@fuzz(400)
+def test_handshake_readers_never_raise(client: bytes, server: bytes, as_records: bool) -> None:
+    """The TLS record and SSH KEXINIT readers of the traffic finder (RFC 8446 section 5.1,
+    RFC 4253 sections 4.2 and 7.1) on arbitrary bytes, bare or inside a handshake record."""
+    from pqtriage.sources.scan.finders import traffic
+
+    def record(body: bytes, kind: int) -> bytes:
+        message = bytes([kind]) + len(body).to_bytes(3, "big") + body
+        return b"\x16\x03\x03" + len(message).to_bytes(2, "big") + message
+
+    if as_records:
+        client, server = record(client, 1), record(server, 2)
+    streams = []
+    for data in (client, server, b"SSH-2.0-fuzz\r\n" + client, b"SSH-2.0-fuzz\r\n" + server):
+        stream = traffic.Stream(1)
+        stream.add(0, data)
+        streams.append(stream)
+    for finding in traffic._tls("c.pcap", "127.0.0.1:443", streams[0], streams[1]):
+        assert finding.algorithm
+    for finding in traffic._ssh("c.pcap", "127.0.0.1:22", streams[2], streams[3]):
+        assert finding.algorithm
