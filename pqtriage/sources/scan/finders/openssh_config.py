@@ -198,17 +198,38 @@ def _unused_lists(text: str, program: str) -> set[str]:
     return unused
 
 
+CERT_SUFFIX = "-cert-v01@openssh.com"
+
+
+def key_algorithm(name: str) -> tuple[str, str | None]:
+    """The signature algorithm an OpenSSH key-type name stands for, and a note when it is a
+    variant: certificates (``-cert-v01@openssh.com``, OpenSSH PROTOCOL.certkeys) sign with
+    their key type; FIDO security keys (``sk-``, OpenSSH PROTOCOL.u2f) with the same curve."""
+    base, notes = name, []
+    if base.endswith(CERT_SUFFIX):
+        base = base[: -len(CERT_SUFFIX)]
+        notes.append("OpenSSH certificate")
+    if base.startswith("sk-"):
+        base = base[3:].removesuffix("@openssh.com")
+        notes.append("FIDO security key")
+    if base == name:
+        return name, None
+    return base, f"{name}: {' and '.join(notes)} signed with {base}"
+
+
 def _use(
     path: str, line: int, name: str, purpose: Purpose, notes: tuple[str, ...], keyword: str
 ) -> Finding:
     detail = f"line{line}:{keyword}:{name}" if line else f"default:{keyword}:{name}"
+    algorithm, variant = key_algorithm(name) if purpose is not Purpose.KEY_ESTABLISHMENT and (
+        keyword not in ("Ciphers", "MACs")) else (name, None)  # fmt: skip
     return Finding(
         source=SourceRef(path, line=line or None, detail=detail),
         kind=FindingKind.CONFIG_SETTING,
-        algorithm=name,
+        algorithm=algorithm,
         purpose=purpose,
         protocol="SSH",
-        notes=notes,
+        notes=notes + ((variant,) if variant else ()),
     )
 
 

@@ -30,6 +30,7 @@ from pqtriage.sources.scan.finders.interface import (
     FinderResult,
     not_understood,
 )
+from pqtriage.sources.scan.finders.openssh_config import key_algorithm
 from pqtriage.sources.scan.findings import Finding, FindingKind
 from pqtriage.sources.scan.sshwire import WireError, WireReader
 
@@ -416,11 +417,14 @@ def _ssh(path: str, where: str, client: Stream, server: Stream) -> list[Finding]
             aead.add(tag[-3:])
         if tag.startswith("mac") and tag[-3:] in aead:
             continue  # an AEAD cipher carries its own integrity: no MAC is used
+        variant = None
+        if tag == "host key":
+            agreed, variant = key_algorithm(agreed)
         notes = (
             "agreed (RFC 4253 section 7.1)",
             f"client {client_banner} offered: " + ",".join(client_list),
             f"server {server_banner} offered: " + ",".join(server_list),
-        )
+        ) + ((variant,) if variant else ())
         found.append(_use(path, where, server.first_packet, tag.replace(" ", "-"), agreed, purpose,
                           "SSH", notes))  # fmt: skip
     return found

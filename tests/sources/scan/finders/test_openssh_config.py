@@ -71,8 +71,9 @@ def test_lists_are_what_sshd_computes(tmp_path: Path, host_key: Path, keyword: s
     config.write_text(f"# OpenSSH {version}\nHostKey {host_key}\n{keyword} {value}\n")
     expected = _lists(run(sshd, "-T", "-f", str(config)))
     result = scan(config)
+    # The name as written is in the source detail (the algorithm is its catalog spelling).
     found = [
-        f.algorithm
+        f.source.detail.split(":", 2)[2]  # type: ignore[union-attr]
         for f in result.findings
         if f.kind is FindingKind.CONFIG_SETTING and f.source.detail.startswith(f"line3:{keyword}:")  # type: ignore[union-attr]
     ]
@@ -151,3 +152,16 @@ def test_default_lists_of_unused_methods_are_not_uses(tmp_path: Path) -> None:
     config.write_text("# OpenSSH 9.2\nHostbasedAuthentication yes\nTrustedUserCAKeys /etc/ssh/ca.pub\n")
     keywords = {f.source.detail.split(":")[1] for f in scan(config).findings}  # type: ignore[union-attr]
     assert {"HostbasedAcceptedAlgorithms", "CASignatureAlgorithms"} <= keywords
+
+
+def test_certificate_and_security_key_variants_take_their_key_type(tmp_path: Path) -> None:
+    """OpenSSH PROTOCOL.certkeys and PROTOCOL.u2f: a -cert-v01 or sk- name signs with its key
+    type, so the catalog can assess it; the name as written stays in the note and source."""
+    config = tmp_path / "sshd_config"
+    config.write_text("HostKeyAlgorithms ssh-ed25519-cert-v01@openssh.com,sk-ecdsa-sha2-nistp256@openssh.com\n")
+    uses = [f for f in scan(config).findings if f.kind is FindingKind.CONFIG_SETTING]
+    assert [(f.algorithm, f.source.detail) for f in uses] == [
+        ("ssh-ed25519", "line1:HostKeyAlgorithms:ssh-ed25519-cert-v01@openssh.com"),
+        ("ecdsa-sha2-nistp256", "line1:HostKeyAlgorithms:sk-ecdsa-sha2-nistp256@openssh.com"),
+    ]
+    assert "FIDO security key" in uses[1].notes[-1]
