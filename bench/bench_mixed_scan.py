@@ -1,6 +1,6 @@
 """Scan of 10k files of mixed kinds against the bare per-file parse of each kind.
 
-Goal (issue 13): at most 3x a loop that does only the unavoidable parse of each file with the
+Goal: at most 3x a loop that does only the unavoidable parse of each file with the
 reference library of its kind: cryptography for certificates, pyjks for keystores, zipfile
 (and cryptography for the certificate inside) for archives, tree-sitter for source code, dpkt
 for captures, and a line split for configuration files. Files: certificates, nginx and sshd

@@ -2,7 +2,7 @@
 
 Documented outcome (pqtriage/sources/scan/finders/interface.py): ``read`` returns a
 FinderResult (findings, problems, not understood with why) and never raises, whatever the
-bytes. Seeds are real files of each kind: configurations like the ones the real programs
+bytes. The starting files are real files of each kind: configurations like the ones the real programs
 accept in tests/sources/scan/finders, a JKS written by pyjks, a zip and a tar.gz written by
 Python's zipfile and tarfile, a pcap written by dpkt (libpcap format), and the source samples.
 """
@@ -29,7 +29,7 @@ CONTEXT = FinderContext(passwords=(b"fuzz-pass",), limits=ArchiveLimits(max_tota
 
 
 @functools.cache
-def seeds() -> dict[str, bytes]:
+def real_files() -> dict[str, bytes]:
     """One real file per finder, keyed by the name it is scanned under."""
     import dpkt
     import jks
@@ -102,18 +102,18 @@ def _check(result: FinderResult) -> None:
 
 
 @given(
-    st.sampled_from(sorted(seeds())),
+    st.sampled_from(sorted(real_files())),
     st.lists(st.tuples(st.integers(0, 10_000), st.integers(0, 16), st.binary(max_size=12)), max_size=6),
 )
 @fuzz(400)
 def test_mutated_files_never_raise(name: str, cuts: list[tuple[int, int, bytes]]) -> None:
-    data = _mutate(seeds()[name], cuts)
+    data = _mutate(real_files()[name], cuts)
     for finder in default_finders():
         if finder.wants(name, data[:4096]):
             _check(finder.read(data, name, CONTEXT))
 
 
-@given(st.sampled_from(sorted(seeds())), st.binary(max_size=2048))
+@given(st.sampled_from(sorted(real_files())), st.binary(max_size=2048))
 @fuzz(200)
 def test_random_bytes_under_every_name_never_raise(name: str, data: bytes) -> None:
     for finder in default_finders():

@@ -1,4 +1,4 @@
-"""The scenario of issue 13, end to end through the real CLI: a folder holding a Java
+"""The first-use scenario, end to end through the real CLI: a folder holding a Java
 keystore made by keytool, an nginx configuration with RC4 and 3DES suites, an sshd_config
 offering diffie-hellman-group1-sha1 and ssh-dss, a jar and a .tar.gz. Scan, then triage.
 
@@ -74,7 +74,7 @@ def test_scan_then_triage_finds_what_the_first_scan_missed(tmp_path: Path) -> No
         return str(matches[0]["verdict"])
 
     assert verdict("nginx.conf#line5:RC4-SHA") == "classically-broken"
-    # 3TDEA's classical status for TLS (SP 800-131A Rev. 2) is the catalog's business (issue 10);
+    # 3TDEA's classical status for TLS (SP 800-131A Rev. 2) is the catalog's business;
     # here: the suite is found, sized from the certificate, and never shown safe.
     assert verdict("nginx.conf#line5:DES-CBC3-SHA") in ("classically-broken", "exposed")
     assert verdict("sshd_config#line2:KexAlgorithms:diffie-hellman-group1-sha1") == "classically-broken"
