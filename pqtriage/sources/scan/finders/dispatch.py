@@ -14,6 +14,7 @@ not understood with why.
 from __future__ import annotations
 
 import dataclasses
+import glob
 import os
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
@@ -270,6 +271,13 @@ class Dispatcher:
     ) -> None:
         if self.read_reference is None or "!" in reference.referrer.file:
             return  # inside an archive, paths name files of another machine
+        if any(char in reference.path for char in "*?["):
+            # include sites-enabled/*.conf: every match, in order; none is no problem (the
+            # programs themselves accept a pattern that matches nothing).
+            for match in sorted(glob.glob(reference.path))[:MAX_REFERENCES]:
+                self._reference(dataclasses.replace(reference, path=match), depth, budget,
+                                references_left, findings, problems)  # fmt: skip
+            return
         real = os.path.realpath(reference.path)
         if reference.role == SERVER_CERTIFICATE:
             self.certificate_links.setdefault(reference.referrer.file, []).append(real)
@@ -292,8 +300,11 @@ class Dispatcher:
         references_left[0] -= 1
         data = self.read_reference(reference.path)
         if isinstance(data, ScanProblem):
+            # A named file that does not exist is a note (nothing is known to be there); one
+            # that exists but cannot be read is a failure.
+            kind = ProblemKind.SKIPPED if data.reason == "no such file or folder" else data.kind
             problems.append(ScanProblem(
-                reference.path, data.kind, f"named by {where} ({reference.role}): {data.reason}"
+                reference.path, kind, f"named by {where} ({reference.role}): {data.reason}"
             ))  # fmt: skip
             return
         self._run(data, reference.path, depth, reference.finder, budget, references_left,

@@ -3,7 +3,8 @@
 ngx_stream_ssl_module documentation).
 
 Directives set in ``http`` or ``stream`` are inherited by the servers that do not set them,
-as nginx does. ``include`` names fragments that the scan reads too (loops are cut by the
+as nginx does. Only servers that switch TLS on (``listen ... ssl``, ``ssl on``) are reported;
+one without ``ssl_ciphers`` has nginx's default, ``HIGH:!aNULL:!MD5``, said so. ``include`` names fragments that the scan reads too (loops are cut by the
 dispatcher). Certificate paths are followed into the certificate reader; relative paths are
 taken from the configuration's folder (nginx takes them from its prefix, usually the same).
 """
@@ -34,6 +35,8 @@ _SNIFF = re.compile(
     re.MULTILINE,
 )
 _BLOCKS = ("http", "stream", "server", "mail")
+DEFAULT_CIPHERS = "HIGH:!aNULL:!MD5"
+"""nginx's ssl_ciphers when a TLS server sets none (ngx_http_ssl_module documentation)."""
 
 
 @dataclass(frozen=True)
@@ -125,7 +128,8 @@ def _walk(tokens: list[Token], path: str) -> tuple[list[TlsSettings], list[Refer
         if token.text == "{":
             name = statement[0].text if statement else ""
             parent = stack[-1][1]
-            child = replace(parent, certificates=list(parent.certificates), extra_notes=[])
+            child = replace(parent, certificates=list(parent.certificates), extra_notes=[],
+                            enabled=False)  # fmt: skip
             if name == "server":
                 child.label = f"server block at line {token.line}"
             stack.append((name, child))
@@ -134,7 +138,10 @@ def _walk(tokens: list[Token], path: str) -> tuple[list[TlsSettings], list[Refer
             if len(stack) == 1:
                 raise ValueError(f"line {token.line}: '}}' without an open block")
             name, settings = stack.pop()
-            if name == "server" and not settings.empty():
+            if name == "server" and settings.enabled:
+                if settings.ciphers is None:
+                    line = int(settings.label.rsplit(" ", 1)[-1])
+                    settings.ciphers = Setting(DEFAULT_CIPHERS, line, "ssl_ciphers (not set: nginx default)")
                 done.append(settings)
             statement = []
         elif token.text == ";":
@@ -156,7 +163,11 @@ def _apply(statement: list[Token], settings: TlsSettings, includes: list[Referen
     name, args = statement[0].text, statement[1:]
     line = statement[0].line
     value = " ".join(token.text for token in args)
-    if name == "ssl_protocols":
+    if name == "listen" and any(t.text in ("ssl", "quic") for t in args) or (
+        name == "ssl" and value == "on"
+    ):
+        settings.enabled = True
+    elif name == "ssl_protocols":
         settings.protocols = Setting(value, line, name)
     elif name == "ssl_ciphers":
         settings.ciphers = Setting(value, line, name)

@@ -29,7 +29,7 @@ from pqtriage.sources.scan.finders.interface import (
     Reference,
 )
 from pqtriage.sources.scan.finders.tlsconfig import SERVER_CERTIFICATE, resolve_path
-from pqtriage.sources.scan.findings import Finding, FindingKind
+from pqtriage.sources.scan.findings import Finding, FindingKind, ProblemKind, ScanProblem
 
 #: Keyword (lower case) -> (canonical keyword, purpose of its algorithms).
 LISTS: dict[str, tuple[str, Purpose]] = {
@@ -176,7 +176,16 @@ class OpensshConfigFinder(Finder):
                 findings += [
                     _use(path, 0, name, purpose, (note,), canonical) for name in default_names
                 ]
-        return FinderResult(claimed=True, findings=tuple(findings), references=tuple(references))
+        problems: tuple[ScanProblem, ...] = ()
+        if defaults is None:
+            problems = (ScanProblem(path, ProblemKind.SKIPPED, (
+                "OpenSSH version not stated: the default lists are not included (give "
+                "--openssh-version, or a '# OpenSSH 9.2' comment in the file)"
+                if version is None else
+                f"no shipped defaults for OpenSSH {version}: the default lists are not included"
+            )),)  # fmt: skip
+        return FinderResult(claimed=True, findings=tuple(findings), references=tuple(references),
+                            problems=problems)  # fmt: skip
 
 
 def _unused_lists(text: str, program: str) -> set[str]:

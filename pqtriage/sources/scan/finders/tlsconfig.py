@@ -62,6 +62,8 @@ class TlsSettings:
     """Certificate (and key) files named."""
     extra_notes: list[str] = field(default_factory=list)
     """Facts to keep beside every use of the block."""
+    enabled: bool = False
+    """TLS is switched on in the block (``listen ... ssl``), where the program says so."""
 
     def empty(self) -> bool:
         """True when the block configures nothing TLS-related."""
@@ -135,7 +137,7 @@ def settings_findings(
         table = cipher_table()
         suites = list(expansion.suites)
         if not pre_shared_keys:
-            kept = [n for n in suites if str(table.suites.get(n, {}).get("au")) not in _SHARED_SECRET]
+            kept = [n for n in suites if not _shared_secret(table.suites.get(n, {}))]
             if len(kept) < len(suites):
                 notes += (f"{len(suites) - len(kept)} PSK/SRP suites not listed: this program "
                           "has no pre-shared keys or SRP verifiers",)  # fmt: skip
@@ -208,6 +210,13 @@ _SHARED_SECRET = frozenset({"PSK", "SRP"})
 #: Certificate key algorithm -> the suite authentication (``Au=``) it can serve, per
 #: openssl-ciphers(1): EdDSA certificates serve the aECDSA suites.
 _SERVES = {"RSA": "RSA", "ECDSA": "ECDSA", "DSA": "DSS", "Ed25519": "ECDSA", "Ed448": "ECDSA"}
+
+
+def _shared_secret(facts: dict[str, object]) -> bool:
+    """A PSK or SRP suite (``Au=PSK``, ``Kx=RSAPSK``, ``Kx=SRP`` ...)."""
+    return str(facts.get("au")) in _SHARED_SECRET or any(
+        word in str(facts.get("kx", "")) for word in _SHARED_SECRET
+    )
 
 
 def fill_from_certificates(findings: list[Finding], links: dict[str, list[str]]) -> list[Finding]:

@@ -165,3 +165,12 @@ def test_certificate_and_security_key_variants_take_their_key_type(tmp_path: Pat
         ("ecdsa-sha2-nistp256", "line1:HostKeyAlgorithms:sk-ecdsa-sha2-nistp256@openssh.com"),
     ]
     assert "FIDO security key" in uses[1].notes[-1]
+
+
+def test_unstated_version_is_said(tmp_path: Path) -> None:
+    config = tmp_path / "sshd_config"
+    config.write_text("Port 22\n")
+    result = scan(config)
+    (note,) = [p for p in result.problems if p.place == str(config)]
+    assert note.kind.value == "skipped" and "--openssh-version" in note.reason
+    assert result.complete  # a note, not a failure
