@@ -33,6 +33,10 @@ _SNIFF = re.compile(
 )
 
 
+ROOTS = ("apache2", "httpd")
+"""Folder names of Apache's ServerRoot: relative paths are taken from it."""
+
+
 def logical_lines(text: str) -> list[tuple[int, str]]:
     """(first line number, text) with backslash continuations joined and comments dropped."""
     lines: list[tuple[int, str]] = []
@@ -90,7 +94,7 @@ class ApacheFinder(Finder):
             hosts.append(top)
         findings, refs = [], list(references)
         for host in hosts:
-            found, more = settings_findings(path, host, context)
+            found, more = settings_findings(path, host, context, roots=ROOTS)
             findings += found
             refs += more
         return FinderResult(claimed=True, findings=tuple(findings), references=tuple(refs))
@@ -124,6 +128,6 @@ def _apply(
         target.certificates.append(Setting(value.strip('"'), number, directive))
     elif key in ("include", "includeoptional") and value:
         references.append(Reference(
-            resolve_path(path, value.strip('"')), SourceRef(path, line=number, detail=f"line{number}"),
+            resolve_path(path, value.strip('"'), ROOTS), SourceRef(path, line=number, detail=f"line{number}"),
             "include", ApacheFinder.name,
         ))  # fmt: skip

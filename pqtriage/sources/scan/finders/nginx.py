@@ -6,7 +6,8 @@ Directives set in ``http`` or ``stream`` are inherited by the servers that do no
 as nginx does. Only servers that switch TLS on (``listen ... ssl``, ``ssl on``) are reported;
 one without ``ssl_ciphers`` has nginx's default, ``HIGH:!aNULL:!MD5``, said so. ``include`` names fragments that the scan reads too (loops are cut by the
 dispatcher). Certificate paths are followed into the certificate reader; relative paths are
-taken from the configuration's folder (nginx takes them from its prefix, usually the same).
+taken from nginx's prefix, the nearest folder named ``nginx`` above the file (``/etc/nginx``),
+else from the file's folder.
 """
 
 from __future__ import annotations
@@ -35,6 +36,8 @@ _SNIFF = re.compile(
     re.MULTILINE,
 )
 _BLOCKS = ("http", "stream", "server", "mail")
+ROOTS = ("nginx",)
+"""Folder names of nginx's prefix: relative paths are taken from it."""
 DEFAULT_CIPHERS = "HIGH:!aNULL:!MD5"
 """nginx's ssl_ciphers when a TLS server sets none (ngx_http_ssl_module documentation)."""
 
@@ -104,7 +107,7 @@ class NginxFinder(Finder):
             return not_understood(path, f"nginx syntax: {error}")
         findings, references = [], list(includes)
         for block in blocks:
-            found, refs = settings_findings(path, block, context)
+            found, refs = settings_findings(path, block, context, roots=ROOTS)
             findings += found
             references += refs
         return FinderResult(claimed=True, findings=tuple(findings), references=tuple(references))
@@ -189,7 +192,7 @@ def _apply(statement: list[Token], settings: TlsSettings, includes: list[Referen
         target = args[0].text
         includes.append(
             Reference(
-                resolve_path(path, target),
+                resolve_path(path, target, ROOTS),
                 SourceRef(path, line=line, detail=f"line{line}"),
                 "include",
                 "nginx",

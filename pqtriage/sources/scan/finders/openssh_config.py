@@ -143,12 +143,12 @@ class OpensshConfigFinder(Finder):
             if lower == "include" and value:
                 for item in value.split():
                     references.append(Reference(
-                        resolve_path(path, item), SourceRef(path, line=number, detail=f"line{number}"),
+                        resolve_path(path, item, ("ssh",)), SourceRef(path, line=number, detail=f"line{number}"),
                         "include", self.name,
                     ))  # fmt: skip
             elif lower in ("hostkey", "identityfile", "hostcertificate") and value:
                 references.append(Reference(
-                    resolve_path(path, value.strip('"')),
+                    resolve_path(path, value.strip('"'), ("ssh",)),
                     SourceRef(path, line=number, detail=f"line{number}"),
                     SERVER_CERTIFICATE if lower == "hostkey" else keyword,
                 ))  # fmt: skip

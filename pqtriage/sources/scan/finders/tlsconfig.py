@@ -111,7 +111,8 @@ def _allows_tls13(settings: TlsSettings) -> bool:
 
 
 def settings_findings(
-    path: str, settings: TlsSettings, context: FinderContext, pre_shared_keys: bool = False
+    path: str, settings: TlsSettings, context: FinderContext, pre_shared_keys: bool = False,
+    roots: tuple[str, ...] = (),
 ) -> tuple[list[Finding], list[Reference]]:
     """Findings for one block: each enabled suite, each group, and certificate references.
 
@@ -185,7 +186,7 @@ def settings_findings(
             ))  # fmt: skip
     references = [
         Reference(
-            path=resolve_path(path, cert.value),
+            path=resolve_path(path, cert.value, roots),
             referrer=SourceRef(path, line=cert.line, detail=f"line{cert.line}"),
             role=SERVER_CERTIFICATE
             if cert.directive in SERVER_CERTIFICATE_DIRECTIVES
@@ -197,12 +198,21 @@ def settings_findings(
     return findings, references
 
 
-def resolve_path(config_path: str, named: str) -> str:
-    """A path named in a configuration, made relative to the configuration's folder."""
+def resolve_path(config_path: str, named: str, roots: tuple[str, ...] = ()) -> str:
+    """A path named in a configuration. A relative one is taken from the program's own folder
+    when the configuration lies under a folder of one of the ``roots`` names (nginx takes
+    relative paths from its prefix, ``/etc/nginx``; sshd from ``/etc/ssh``; Apache from its
+    ServerRoot), otherwise from the configuration's folder."""
     named = named.strip().strip('"').strip("'")
     if os.path.isabs(named):
         return named
-    return os.path.join(os.path.dirname(config_path) or ".", named)
+    folder = os.path.dirname(config_path) or "."
+    if roots:
+        parts = folder.split(os.sep)
+        for index in range(len(parts), 0, -1):
+            if parts[index - 1] in roots:
+                return os.path.join(os.sep.join(parts[:index]) or os.sep, named)
+    return os.path.join(folder, named)
 
 
 _SSH_RSA = ("ssh-rsa", "rsa-sha2-")
