@@ -117,6 +117,18 @@ def parser(language: str) -> Any:
     return Parser(Language(getattr(importlib.import_module(module), function)()))
 
 
+@functools.cache
+def _needles(language: str) -> re.Pattern[bytes]:
+    """The first segment of every rule of a language, as a word: one of them is written in
+    any file a rule can fire on (``hashlib`` for ``hashlib.md5``, ``ring`` for
+    ``ring::agreement::X25519``), in the call itself or in the import that binds it."""
+    found = set()
+    for rule in rules()[0]:
+        if language in rule.languages:
+            found.add(re.escape(_segments(rule.call or rule.name or "")[0]))
+    return re.compile(rb"\b(" + "|".join(sorted(found)).encode() + rb")\b")
+
+
 def language_of(path: str) -> str | None:
     """The language a file name says, or None."""
     return EXTENSIONS.get(os.path.splitext(path)[1].lower())
@@ -330,14 +342,18 @@ class SourceCodeFinder(Finder):
             return NOT_MINE
         if len(data) > MAX_SOURCE_BYTES:
             return not_understood(path, f"source file over {MAX_SOURCE_BYTES} bytes, not parsed")
+        wanted = _RULE_LANGUAGE.get(language, language)
+        if not _needles(wanted).search(data):
+            # No rule's library is named anywhere in the file: nothing to find (a call needs
+            # its module, class or function name written, or imported, in the same file).
+            return FinderResult(claimed=True)
         try:
             tree = parser(language).parse(data)
         except (ImportError, ValueError) as error:
             return not_understood(path, f"no {language} grammar ({type(error).__name__})")
-        if tree.root_node.has_error and tree.root_node.type == "ERROR":
-            return not_understood(path, f"does not parse as {language}")
+        # The grammars recover from errors (macros, newer syntax): what parses is still read,
+        # so a file with errors is understood, not refused.
         file = _File(tree.root_node)
-        wanted = _RULE_LANGUAGE.get(language, language)
         table, curves = rules()
         calls = [r for r in table if r.call and wanted in r.languages]
         names = {tuple(_segments(r.name)): r for r in table if r.name and wanted in r.languages}
