@@ -119,6 +119,12 @@ def test_tls12_and_tls13_handshakes(tmp_path: Path) -> None:
         ("TLS_AES_256_GCM_SHA384", "TLS 1.3"), ("x25519", "TLS 1.3"),
     ]  # fmt: skip
     assert "client key shares: x25519" in tls13[0].notes
+    # One system per server address and port, whatever the grouping rule.
+    from pqtriage.sources.scan.grouping import GroupBy, group_findings
+
+    groups = group_findings(list(result.findings), GroupBy.FOLDER)
+    servers = {g.key for g in groups if g.label == "target"}
+    assert servers == {f.host for f in traffic}
     # The same packets written as pcapng (dpkt's pcapng writer) give the same uses.
     import dpkt
 
