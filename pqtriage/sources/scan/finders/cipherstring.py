@@ -22,6 +22,7 @@ from typing import Any
 from pqtriage.sources.scan.finders.data import load_data
 
 _SEPARATORS = re.compile(r"[:, ]+")
+LEGACY_NOTE = "suites OpenSSL 3.0 no longer builds, kept as named: "
 
 
 @dataclass(frozen=True)
@@ -135,7 +136,7 @@ def expand_with_table(text: str, table: CipherTable | None = None) -> Expansion:
             order += [n for n in names if n not in killed and n not in order]
     kept_legacy = [n for n in order if n in table.legacy]
     if kept_legacy:
-        notes.append("suites OpenSSL 3.0 no longer builds, kept as named: " + ", ".join(kept_legacy))
+        notes.append(LEGACY_NOTE + ", ".join(kept_legacy))
     return Expansion(tuple(order), tuple(unknown), "table", tuple(notes))
 
 

@@ -14,7 +14,7 @@ import os
 from dataclasses import dataclass, field
 
 from pqtriage.model.inventory import Purpose, SourceRef
-from pqtriage.sources.scan.finders.cipherstring import cipher_table, expand
+from pqtriage.sources.scan.finders.cipherstring import LEGACY_NOTE, cipher_table, expand
 from pqtriage.sources.scan.finders.interface import FinderContext, Reference
 from pqtriage.sources.scan.findings import Finding, FindingKind
 
@@ -134,7 +134,7 @@ def settings_findings(
         notes = base_notes + (
             f"enabled by {settings.ciphers.directive} at line {settings.ciphers.line} "
             f"(expanded by the {how})",
-        ) + expansion.notes  # fmt: skip
+        ) + tuple(n for n in expansion.notes if not n.startswith(LEGACY_NOTE))  # fmt: skip
         table = cipher_table()
         suites = list(expansion.suites)
         if not pre_shared_keys:
@@ -147,6 +147,8 @@ def settings_findings(
             kx = str(table.suites.get(suite, {}).get("kx", ""))
             curve = first_curve if kx.startswith("ECDH") and first_curve else None
             suite_notes = notes + ((DEFAULT_GROUPS_NOTE,) if curve and assumed_groups else ())
+            if suite in table.legacy:
+                suite_notes += ("OpenSSL 3.0 no longer builds this suite: kept as the file names it",)
             findings.append(_use(path, settings.ciphers, suite, Purpose.ENCRYPTION, protocol,
                                  suite_notes, curve))  # fmt: skip
         for token in expansion.unknown:
