@@ -19,6 +19,7 @@ import re
 from dataclasses import dataclass
 from typing import Any
 
+from pqtriage.errors import CatalogError
 from pqtriage.sources.scan.finders.data import load_data
 
 _SEPARATORS = re.compile(r"[:, ]+")
@@ -73,7 +74,7 @@ def cipher_table() -> CipherTable:
     legacy = set()
     for row in raw["legacy"]:
         if not row.get("source"):
-            raise ValueError(f"openssl_ciphers.yaml: legacy row {row.get('name')} has no source")
+            raise CatalogError(f"openssl_ciphers.yaml: legacy row {row.get('name')} has no source")
         suites[str(row["name"])] = dict(row)
         legacy.add(str(row["name"]))
         for keyword in row.get("keywords", []):
@@ -81,7 +82,7 @@ def cipher_table() -> CipherTable:
     for key, names in keywords.items():
         for name in names:
             if name not in suites:
-                raise ValueError(f"openssl_ciphers.yaml: keyword {key} names unknown suite {name}")
+                raise CatalogError(f"openssl_ciphers.yaml: keyword {key} names unknown suite {name}")
     return CipherTable(
         suites=suites,
         keywords={key: tuple(names) for key, names in keywords.items()},

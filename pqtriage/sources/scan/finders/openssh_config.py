@@ -19,6 +19,7 @@ import functools
 import re
 from dataclasses import dataclass
 
+from pqtriage.errors import CatalogError, Place
 from pqtriage.model.inventory import Purpose, SourceRef
 from pqtriage.sources.scan.finders.data import load_data, require_sources
 from pqtriage.sources.scan.finders.interface import (
@@ -67,9 +68,16 @@ def _defaults() -> dict[tuple[str, str], OpensshDefaults]:
     raw = load_data("openssh_defaults.yaml", ("versions",))
     require_sources(raw["versions"], "openssh_defaults.yaml", "versions")
     table = {}
+    known = {canonical for canonical, _ in LISTS.values()}
     for row in raw["versions"]:
         for program in ("sshd", "ssh"):
             lists = {key: tuple(names) for key, names in row[program].items()}
+            if not set(lists) <= known:
+                raise CatalogError(
+                    f"OpenSSH {row['version']} {program}: unknown lists "
+                    + ", ".join(sorted(set(lists) - known)),
+                    place=Place("pqtriage/data/discovery/openssh_defaults.yaml"),
+                )
             table[(str(row["version"]), program)] = OpensshDefaults(
                 str(row["version"]), lists, str(row["source"])
             )

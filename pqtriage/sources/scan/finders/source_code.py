@@ -23,6 +23,7 @@ from collections.abc import Iterator
 from dataclasses import dataclass
 from typing import Any
 
+from pqtriage.errors import CatalogError, Place
 from pqtriage.model.inventory import Purpose, SourceRef
 from pqtriage.sources.scan.finders.cipherstring import expand
 from pqtriage.sources.scan.finders.data import load_data, require_sources
@@ -66,6 +67,13 @@ _IMPORTS = {"import_statement", "import_from_statement", "use_declaration"}
 _WRAPPERS = {"parenthesized_expression", "cast_expression", "type_cast_expression",
              "expression_list", "reference_expression", "unary_expression"}  # fmt: skip
 UNRESOLVED = "parameters not resolved"
+RULE_FIELDS = frozenset({
+    "id", "language", "library", "call", "name", "algorithm", "algorithm_arg", "algorithm_field",
+    "prefix", "size", "size_arg", "size_kw", "size_field", "size_call", "length_field", "curve",
+    "curve_arg", "curve_kw", "curve_field", "cipher_string_arg", "protocol", "protocol_arg",
+    "purpose", "source", "sample", "expect", "expect_size", "expect_curve",
+})
+"""Every field a rule may have (a misspelt one is a packaging bug, refused at load)."""
 MAX_SOURCE_BYTES = 2 * 1024 * 1024
 _HASHES = re.compile(r"^(MD2|MD4|MD5|SHA-?1|SHA-?224|SHA-?256|SHA-?384|SHA-?512|SHA3-\d+|RIPEMD160)$", re.I)
 
@@ -94,12 +102,18 @@ def rules() -> tuple[tuple[Rule, ...], dict[str, str]]:
     require_sources(raw["rules"], "source_rules.yaml", "rules")
     loaded = []
     for row in raw["rules"]:
+        unknown = set(row) - RULE_FIELDS
+        if unknown:
+            raise CatalogError(
+                f"source rule {row.get('id')}: unknown fields {', '.join(sorted(unknown))}",
+                place=Place("pqtriage/data/discovery/source_rules.yaml"),
+            )
         languages = row["language"] if isinstance(row["language"], list) else [row["language"]]
         if ("call" in row) == ("name" in row):
-            raise ValueError(f"source rule {row['id']}: give exactly one of call or name")
+            raise CatalogError(f"source rule {row['id']}: give exactly one of call or name")
         for language in languages:
             if language not in GRAMMARS:
-                raise ValueError(f"source rule {row['id']}: unknown language {language}")
+                raise CatalogError(f"source rule {row['id']}: unknown language {language}")
         loaded.append(Rule(
             id=str(row["id"]), languages=tuple(languages), library=str(row["library"]),
             call=row.get("call"), name=row.get("name"), purpose=Purpose(row["purpose"]),

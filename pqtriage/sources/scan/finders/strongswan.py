@@ -13,6 +13,7 @@ from __future__ import annotations
 import functools
 import re
 
+from pqtriage.errors import CatalogError, Place
 from pqtriage.model.inventory import Purpose, SourceRef
 from pqtriage.sources.scan.finders.data import load_data, require_sources
 from pqtriage.sources.scan.finders.interface import (
@@ -38,7 +39,15 @@ def keywords() -> tuple[dict[str, tuple[str, Purpose]], frozenset[str]]:
     """Proposal keyword -> (catalog name, purpose), and the keywords that name nothing."""
     raw = load_data("strongswan_keywords.yaml", ("tokens", "ignore"))
     require_sources(raw["tokens"], "strongswan_keywords.yaml", "tokens")
-    table = {str(r["token"]): (str(r["algorithm"]), Purpose(r["purpose"])) for r in raw["tokens"]}
+    table = {}
+    for row in raw["tokens"]:
+        try:
+            table[str(row["token"])] = (str(row["algorithm"]), Purpose(row["purpose"]))
+        except (KeyError, ValueError) as error:
+            raise CatalogError(
+                f"strongSwan keyword {row.get('token')}: needs an algorithm and a known purpose",
+                place=Place("pqtriage/data/discovery/strongswan_keywords.yaml"),
+            ) from error
     return table, frozenset(str(t) for t in raw["ignore"])
 
 
