@@ -224,7 +224,7 @@ def measure(args: argparse.Namespace) -> list[Figure]:
         name="Mixed scan",
         measured="pqtriage " + " ".join(SCAN_ARGS),
         floor="python loop: the reference library's parse of each file by kind (see the module docstring)",
-        goal=f"at most {GOAL_RATIO:g}x the floor",
+        goal=f"at most {GOAL_RATIO:g}x the floor (CPU time)",
         met=None,
     )
     folder = work_dir()
@@ -235,9 +235,11 @@ def measure(args: argparse.Namespace) -> list[Figure]:
         scan = [a.format(folder=files, out=out) for a in SCAN_ARGS]
         floor = best_of([sys.executable, "-c", FLOOR_CODE, str(files)], 3)
         run = best_of(pqtriage_argv(*scan), 3)
-        ratio = run.seconds / floor.seconds
-        figure.rows.append({"files": f"{count:,}", "scan s": f"{run.seconds:.2f}",
-                            "floor s": f"{floor.seconds:.2f}", "ratio": f"{ratio:.2f}x",
+        # The figure is the ratio of CPU times (the machine may be shared); wall times beside it.
+        ratio = run.cpu_seconds / floor.cpu_seconds
+        figure.rows.append({"files": f"{count:,}", "scan CPU s": f"{run.cpu_seconds:.2f}",
+                            "floor CPU s": f"{floor.cpu_seconds:.2f}", "ratio": f"{ratio:.2f}x",
+                            "scan wall s": f"{run.seconds:.2f}", "floor wall s": f"{floor.seconds:.2f}",
                             "peak MiB": f"{run.peak_rss_bytes / 2**20:.0f}"})
     figure.met = ratio <= GOAL_RATIO
     phases = _phases(files)
