@@ -88,26 +88,26 @@ for path in sorted(pathlib.Path(sys.argv[1]).rglob('*')):
 
 PHASES_CODE = """\
 import json, sys, time
-started = time.perf_counter()
+started = time.process_time()
 from pqtriage.sources.scan.emit import inventory_dict, render
 from pqtriage.sources.scan.finders.interface import FinderContext
 from pqtriage.sources.scan.finders.openssl_cli import system_expander
 from pqtriage.sources.scan.grouping import GroupBy, group_findings
 from pqtriage.sources.scan.scanner import plan, scan_entries
-imported = time.perf_counter()
+imported = time.process_time()
 entries, problems = plan([sys.argv[1]])
 context = FinderContext(passwords=(b'bench-pass',), expand_cipher_string=system_expander())
 result = scan_entries(entries, problems, context=context)
-scanned = time.perf_counter()
+scanned = time.process_time()
 document = inventory_dict(group_findings(list(result.findings), GroupBy.FOLDER))
-grouped = time.perf_counter()
+grouped = time.process_time()
 render(document, 'json')
-done = time.perf_counter()
+done = time.process_time()
 print(json.dumps({'imports': imported - started, 'finders': scanned - imported,
                   'systems and uses': grouped - scanned, 'JSON text': done - grouped,
                   'uses': len(result.findings)}))
 """
-"""Where the scan's time goes, in one process (imports, finders, inventory, output)."""
+"""Where the scan's CPU time goes, in one process (imports, finders, inventory, output)."""
 
 
 def _phases(files: Path) -> dict[str, float]:
