@@ -31,7 +31,7 @@ from tests.sources import material as m
 
 def _zip_bomb(path: Path) -> None:
     with zipfile.ZipFile(path, "w", compression=zipfile.ZIP_DEFLATED) as archive:
-        archive.writestr("zeros.bin", bytes(200 * 1024 * 1024))  # about 200 KiB compressed
+        archive.writestr("zeros.bin", bytes(64 * 1024 * 1024))  # about 64 KiB compressed
 
 
 def _nested(path: Path, depth: int = 8) -> None:
