@@ -23,6 +23,8 @@ _SNIFF = re.compile(
     rb"^\s*(client|remote|dev\s+tun|dev\s+tap|tls-cipher|data-ciphers|tls-auth|tls-crypt)\b", re.M
 )
 _FILES = ("ca", "cert", "dh", "extra-certs")
+_DEVICE = re.compile(rb"^\s*dev\s+(tun|tap)\w*\s*$", re.M)
+_ROLE = re.compile(rb"^\s*(client|remote\s|server\s|tls-server|tls-client|secret\s)", re.M)
 
 
 class OpenvpnFinder(Finder):
@@ -32,7 +34,10 @@ class OpenvpnFinder(Finder):
 
     def wants(self, path: str, head: bytes) -> bool:
         lower = path.lower()
-        return lower.endswith(".ovpn") or "/openvpn/" in lower and lower.endswith(".conf")
+        if lower.endswith(".ovpn") or "/openvpn/" in lower and lower.endswith(".conf"):
+            return True
+        # Elsewhere: a tunnel device and a peer or TLS role, as every OpenVPN file has.
+        return bool(_DEVICE.search(head)) and bool(_ROLE.search(head))
 
     def read(self, data: bytes, path: str, context: FinderContext) -> FinderResult:
         text = data.decode("utf-8", "replace")

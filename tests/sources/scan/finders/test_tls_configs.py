@@ -181,3 +181,11 @@ def test_files_of_the_kind_without_tls_are_understood_and_empty(tmp_path: Path, 
     config.write_text("# nothing about TLS here\n")
     result = scan(config)
     assert _uses(result, config) == []
+
+
+def test_openvpn_file_found_by_content(tmp_path: Path) -> None:
+    """A client file named .conf outside an openvpn folder (openvpn(8): dev and remote)."""
+    config = tmp_path / "office.conf"
+    config.write_text("client\ndev tun\nremote vpn.example.test 1194\ncipher BF-CBC\n")
+    uses = _uses(scan(config), config)
+    assert [(f.algorithm, f.source.line) for f in uses] == [("BF-CBC", 4)]
