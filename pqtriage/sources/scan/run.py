@@ -112,8 +112,11 @@ def scan_inventory(
         result = scan_entries(
             entries, walk_problems, None, max_file_bytes, advance, context=context
         )
-    understood = result.files_with_material
-    summary = [f"scan: {result.files_read} files read, {understood} understood by a finder"]
+    summary = [
+        result.summary.headline(result.files_read)
+        if result.summary is not None
+        else f"scan: {result.files_read} files read"
+    ]
     if result.summary is not None:
         summary.extend(result.summary.lines({problem.place for problem in result.problems}))
     summary.extend(problem.line() for problem in result.problems)

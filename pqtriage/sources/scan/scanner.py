@@ -106,7 +106,7 @@ def scan_entries(
         if advance is not None:
             advance(entry.path)
     summary = dispatcher.summary
-    understood = sum(tally.understood for tally in summary.finders.values())
+    understood = summary.understood
     findings = dispatcher.link_facts(fill_issuer_facts(findings))
     return ScanResult(tuple(findings), tuple(problems), read, understood, summary)
 

@@ -57,11 +57,29 @@ class ScanSummary:
     finders: dict[str, FinderTally] = field(default_factory=dict)
     """Tally per finder name, in the finders' order."""
     unclaimed: int = 0
-    """Files read that no finder took (no cryptographic material of a known kind)."""
+    """Files (and archive members) that no finder took: no material of a known kind."""
+    understood: int = 0
+    """Files (and archive members) at least one finder understood."""
+    not_understood: int = 0
+    """Files (and archive members) some finder claimed but none understood."""
+    members: int = 0
+    """Archive members read."""
+    named: int = 0
+    """Files read because a configuration names them (outside the walk)."""
 
     def tally(self, name: str) -> FinderTally:
         """The tally of a finder (created on first use)."""
         return self.finders.setdefault(name, FinderTally())
+
+    def headline(self, files_read: int) -> str:
+        """The first summary line: what was read, and what the finders made of it."""
+        extra = [f"{self.members} archive members"] if self.members else []
+        extra += [f"{self.named} files named by configurations"] if self.named else []
+        read = f"{files_read} files read" + (" (and " + ", ".join(extra) + ")" if extra else "")
+        return (
+            f"scan: {read}: {self.understood} understood by a finder, {self.not_understood} "
+            f"not understood, {self.unclaimed} with nothing a finder reads"
+        )
 
     def lines(self, listed: set[str] | frozenset[str] = frozenset()) -> list[str]:
         """One line per finder that saw anything, then each file not understood (except the
@@ -79,8 +97,7 @@ class ScanSummary:
                 for place, why in tally.not_understood
                 if place not in listed
             ]
-        if self.unclaimed:
-            lines.append(f"{self.unclaimed} files held nothing any finder reads")
+
         return lines
 
     def to_dict(self) -> dict[str, Any]:
@@ -98,7 +115,11 @@ class ScanSummary:
                 }
                 for name, tally in self.finders.items()
             ],
+            "understood": self.understood,
+            "not_understood": self.not_understood,
             "unclaimed": self.unclaimed,
+            "archive_members": self.members,
+            "named_by_configurations": self.named,
         }
 
 
@@ -181,7 +202,7 @@ class Dispatcher:
     ) -> None:
         head = data[:HEAD_BYTES]
         context = dataclasses.replace(self.context, depth=depth, budget=budget)
-        claimed = False
+        claimed = understood = False
         real = path
         if self.hints or self.claimed_by_real:
             real = os.path.realpath(path) if depth == 0 else path
@@ -203,6 +224,7 @@ class Dispatcher:
             if not result.claimed:
                 continue
             claimed = True
+            understood = understood or result.understood
             if result.references and not self.claimed_by_real:
                 self._use_real_paths()
             if self.claimed_by_real and depth == 0:
@@ -226,6 +248,10 @@ class Dispatcher:
                 claimed = True
         if not claimed:
             self.summary.unclaimed += 1
+        elif understood:
+            self.summary.understood += 1
+        else:
+            self.summary.not_understood += 1
 
     def _record(self, name: str, path: str, result: FinderResult) -> None:
         tally = self.summary.tally(name)
@@ -245,6 +271,7 @@ class Dispatcher:
         findings: list[Finding],
         problems: list[ScanProblem],
     ) -> None:
+        self.summary.members += 1
         self._run(member.data, member.name, depth + 1, None, budget, references_left,
                   findings, problems)  # fmt: skip
 
@@ -307,5 +334,6 @@ class Dispatcher:
                 reference.path, kind, f"named by {where} ({reference.role}): {data.reason}"
             ))  # fmt: skip
             return
+        self.summary.named += 1
         self._run(data, reference.path, depth, reference.finder, budget, references_left,
                   findings, problems)  # fmt: skip
