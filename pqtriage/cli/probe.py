@@ -36,10 +36,13 @@ def probe(
     organization: str = typer.Option("Probed endpoints", "--organization", help="Organisation name of a new inventory."),
     shelf_life: float = typer.Option(5.0, "--shelf-life", help="Assumed shelf-life x (flagged as assumed)."),
     migration_years: float = typer.Option(2.0, "--migration-years", help="Assumed migration time y (flagged as assumed)."),
+    as_of: Optional[str] = typer.Option(None, "--as-of", help="Date the remaining validity of certificates is counted from (YYYY-MM-DD, default today)."),
 ) -> None:
     """Record what live TLS and SSH endpoints negotiate; write an inventory."""
+    from pqtriage.pipeline import parse_as_of
+
     finish_discovery(probe_command(
         list(targets or []), targets_file=targets_file, timeout=timeout, concurrency=concurrency,
         output=output, output_format=output_format.value, merge=merge, organization=organization,
-        shelf_life_years=shelf_life, migration_years=migration_years,
+        shelf_life_years=shelf_life, migration_years=migration_years, as_of=parse_as_of(as_of),
     ))

@@ -89,6 +89,7 @@ def scan(
     organization: str = typer.Option("Scanned inventory", "--organization", help="Organisation name of a new inventory."),
     shelf_life: float = typer.Option(5.0, "--shelf-life", help="Assumed shelf-life x for found systems (flagged as assumed)."),
     migration_years: float = typer.Option(2.0, "--migration-years", help="Assumed migration time y (flagged as assumed)."),
+    as_of: Optional[str] = typer.Option(None, "--as-of", help="Date the remaining validity of certificates is counted from (YYYY-MM-DD, default today)."),
     max_file_size: int = typer.Option(16 * 1024 * 1024, "--max-file-size", help="Skip files larger than this many bytes."),
     keystore_password: Optional[List[str]] = typer.Option(None, "--keystore-password", help="Password to try on keystores and PKCS#12 bundles (repeatable). The variable PQTRIAGE_KEYSTORE_PASSWORD is tried too, whole. Prefer the variable or --keystore-password-file: a command line is visible to other users."),
     keystore_password_file: Optional[str] = typer.Option(None, "--keystore-password-file", help="File whose first line is a keystore password."),
@@ -98,12 +99,14 @@ def scan(
     summary_json: Optional[str] = typer.Option(None, "--summary-json", help="Also write the per-finder summary (files seen, understood, findings, not understood and why) as JSON to this file."),
 ) -> None:
     """Find cryptography in files and folders; write an inventory."""
+    from pqtriage.pipeline import parse_as_of
     from pqtriage.sources.scan.finders.interface import ArchiveLimits
 
     finish_discovery(scan_command(
         list(paths), output=output, output_format=output_format.value, group_by=group_by.value,
         merge=merge, password_file=password_file, organization=organization,
         shelf_life_years=shelf_life, migration_years=migration_years, max_file_bytes=max_file_size,
+        as_of=parse_as_of(as_of),
         keystore_passwords=_keystore_passwords(keystore_password),
         keystore_password_file=keystore_password_file, openssh_version=openssh_version,
         archive_limits=ArchiveLimits(max_depth=archive_depth, max_total_bytes=archive_max_bytes),

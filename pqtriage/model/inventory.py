@@ -6,6 +6,7 @@ probes) build these; the triage model reads them.
 
 from __future__ import annotations
 
+import datetime as dt
 from dataclasses import dataclass, field
 from enum import Enum
 
@@ -73,6 +74,14 @@ class SourceRef:
         return text
 
 
+IN_USE = "in-use"
+"""Role of a use that is what the system actually runs (the default)."""
+OFFERED = "offered"
+"""Role of a use a server offers that a current client does not negotiate (older clients may)."""
+USE_ROLES = (IN_USE, OFFERED)
+"""Accepted values of :attr:`CryptoUse.role`."""
+
+
 @dataclass(frozen=True)
 class CryptoUse:
     """One place where a system uses one algorithm for one purpose."""
@@ -97,6 +106,13 @@ class CryptoUse:
     """Where this use was written or found."""
     assumed: tuple[str, ...] = ()
     """Names of fields whose values are documented defaults, not facts from the input."""
+    role: str = IN_USE
+    """``in-use`` (what runs) or ``offered`` (offered by a server, not what a current client
+    negotiates: older or differently configured clients may still use it)."""
+    not_before: dt.date | None = None
+    """Start of validity of the certificate this use rests on, when it comes from one."""
+    not_after: dt.date | None = None
+    """End of validity of the certificate this use rests on, when it comes from one."""
 
 
 @dataclass(frozen=True)

@@ -9,7 +9,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any
 
-from pqtriage.model.inventory import Criticality, Exposure, Purpose
+from pqtriage.model.inventory import USE_ROLES, Criticality, Exposure, Purpose
 
 MAX_SHELF_LIFE_YEARS = 100.0
 """Longest shelf-life accepted: beyond a century the number is a typo, not a plan."""
@@ -38,7 +38,7 @@ class FieldSpec:
     name: str
     """Key as written in YAML."""
     kind: str
-    """str, number, integer, enum, string-list, field-list, uses or systems."""
+    """str, number, integer, enum, date, string-list, field-list, uses or systems."""
     description: str
     """What the field means, shown in the JSON Schema and docs."""
     required: bool = False
@@ -68,6 +68,12 @@ USE_FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("notes", "str", "Free text."),
     FieldSpec("source", "str", "Where the use was found (file and block, host:port)."),
     FieldSpec("assumed", "field-list", "Fields whose values are defaults, not facts."),
+    FieldSpec("role", "enum", "in-use (what runs; the default) or offered (a server offers it, a "
+              "current client does not negotiate it).", choices=USE_ROLES),
+    FieldSpec("not_before", "date", "Start of validity of the certificate the use rests on "
+              "(YYYY-MM-DD)."),
+    FieldSpec("not_after", "date", "End of validity of the certificate the use rests on "
+              "(YYYY-MM-DD)."),
 )
 
 SYSTEM_FIELDS: tuple[FieldSpec, ...] = (
@@ -120,6 +126,8 @@ def _field_schema(spec: FieldSpec) -> dict[str, Any]:
             schema["maximum"] = spec.maximum
     elif spec.kind == "enum":
         schema = {"type": "string", "enum": list(spec.choices)}
+    elif spec.kind == "date":
+        schema = {"type": "string", "format": "date"}
     elif spec.kind == "string-list":
         schema = {"type": "array", "items": {"type": "string"}}
     elif spec.kind == "field-list":

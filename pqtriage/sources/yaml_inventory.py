@@ -2,12 +2,15 @@
 
 from __future__ import annotations
 
+import datetime as dt
 import difflib
 import math
+import re
 from typing import Any
 
 from pqtriage.errors import InventoryError, Place
 from pqtriage.model.inventory import (
+    IN_USE,
     Criticality,
     CryptoUse,
     Exposure,
@@ -28,6 +31,9 @@ from pqtriage.yamlio import Node, load_yaml, paused_gc
 
 _TYPE_NAMES = {str: "text", int: "a whole number", float: "a number", bool: "true/false",
                list: "a list", dict: "a mapping", type(None): "nothing"}
+
+
+_ISO_DATE = re.compile(r"\d{4}-\d{2}-\d{2}")
 
 
 def _kind_of(value: object) -> str:
@@ -89,6 +95,14 @@ class _Reader:
                 hint = f"did you mean '{close[0]}'?" if close else f"use one of: {', '.join(spec.choices)}"
                 raise self.fail(node, f"{label} is {str(value)[:60]!r}, not a known value", hint)
             return value
+        if spec.kind == "date":
+            try:
+                if not isinstance(value, str) or not _ISO_DATE.fullmatch(value):
+                    raise ValueError(value)
+                return dt.date.fromisoformat(value)
+            except ValueError:
+                raise self.fail(node, f"{label} is {str(value)[:40]!r}, not a date",
+                                "write YYYY-MM-DD, for example 2030-06-30") from None
         if spec.kind in ("string-list", "field-list"):
             if not isinstance(value, list):
                 raise self.fail(node, f"{label} must be a list, got {_kind_of(value)}",
@@ -130,6 +144,9 @@ class _Reader:
             notes=values.get("notes"),
             source=SourceRef(self.path, node.line, node.column, values.get("source")),
             assumed=values.get("assumed", ()),
+            role=values.get("role", IN_USE),
+            not_before=values.get("not_before"),
+            not_after=values.get("not_after"),
         )
 
     def system(self, node: Node, index: int, defaults: dict[str, Any]) -> System:

@@ -10,7 +10,7 @@ from typing import Any
 
 import yaml
 
-from pqtriage.model.inventory import CryptoUse, Inventory, System
+from pqtriage.model.inventory import IN_USE, CryptoUse, Inventory, System
 
 try:  # the C emitter when PyYAML has it
     from yaml import CSafeDumper as _Dumper
@@ -35,6 +35,10 @@ def _use(use: CryptoUse) -> dict[str, Any]:
     _put(out, "notes", use.notes)
     _put(out, "source", use.source.detail if use.source else None)
     _put(out, "assumed", use.assumed)
+    if use.role != IN_USE:
+        out["role"] = use.role
+    _put(out, "not_before", use.not_before.isoformat() if use.not_before else None)
+    _put(out, "not_after", use.not_after.isoformat() if use.not_after else None)
     return out
 
 

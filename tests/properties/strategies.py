@@ -2,9 +2,12 @@
 
 from __future__ import annotations
 
+import datetime as dt
+
 from hypothesis import strategies as st
 
 from pqtriage.model.inventory import (
+    USE_ROLES,
     Criticality,
     CryptoUse,
     Exposure,
@@ -36,6 +39,9 @@ def uses(draw: st.DrawFn) -> CryptoUse:
         protocol=draw(st.none() | TEXT),
         notes=draw(st.none() | TEXT),
         source=SourceRef("inv.yaml", None, None, draw(st.none() | TEXT)),
+        role=draw(st.sampled_from(USE_ROLES)),
+        not_before=draw(st.none() | st.dates(dt.date(1970, 1, 1), dt.date(9999, 12, 31))),
+        not_after=draw(st.none() | st.dates(dt.date(1970, 1, 1), dt.date(9999, 12, 31))),
     )
 
 

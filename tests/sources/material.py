@@ -12,7 +12,7 @@ from typing import Any
 
 from cryptography import x509
 from cryptography.hazmat.primitives import hashes, serialization
-from cryptography.hazmat.primitives.asymmetric import dsa, ec, ed448, ed25519, mldsa, rsa
+from cryptography.hazmat.primitives.asymmetric import dsa, ec, ed448, ed25519, mldsa, padding, rsa
 from cryptography.hazmat.primitives.serialization import pkcs7, pkcs12
 from cryptography.x509.oid import ExtendedKeyUsageOID, NameOID
 
@@ -54,6 +54,39 @@ def _hash_for(key: Any) -> hashes.HashAlgorithm | None:
     return hashes.SHA256()
 
 
+#: DER AlgorithmIdentifier of sha256WithRSAEncryption (RFC 8017, Appendix C: 1.2.840.113549.1.1.11,
+#: NULL parameters). md5WithRSAEncryption (.1.1.4) and sha1WithRSAEncryption (.1.1.5) have the
+#: same encoded length and differ only in the OID's last byte.
+_SHA256_WITH_RSA = bytes.fromhex("300d06092a864886f70d01010b0500")
+_RSA_OID_LAST_BYTE = {"md5": 0x04, "sha1": 0x05}
+_LEGACY_HASHES = {"md5": hashes.MD5, "sha1": hashes.SHA1}
+
+
+def _resign_rsa(cert: x509.Certificate, signer: rsa.RSAPrivateKey, hash_name: str) -> x509.Certificate:
+    """The same certificate signed with MD5 or SHA-1 instead of SHA-256 (RSA PKCS #1 v1.5).
+
+    The cryptography library refuses to *build* MD5- and SHA-1-signed certificates, but its
+    hazmat RSA API still signs with those hashes: the SHA-256 certificate's two signature
+    AlgorithmIdentifiers (inside the to-be-signed part and after it, RFC 5280 section 4.1) are
+    rewritten to the legacy OID, and the new to-be-signed bytes are signed again. The
+    signature keeps its length (the modulus length), so no DER length changes.
+    """
+    legacy = _SHA256_WITH_RSA[:-3] + bytes([_RSA_OID_LAST_BYTE[hash_name]]) + _SHA256_WITH_RSA[-2:]
+    der = cert.public_bytes(serialization.Encoding.DER)
+    assert der.count(_SHA256_WITH_RSA) == 2 and der.count(cert.signature) == 1
+    tbs = cert.tbs_certificate_bytes.replace(_SHA256_WITH_RSA, legacy)
+    signature = signer.sign(tbs, padding.PKCS1v15(), _LEGACY_HASHES[hash_name]())
+    rebuilt = der.replace(_SHA256_WITH_RSA, legacy).replace(cert.signature, signature)
+    return x509.load_der_x509_certificate(rebuilt)
+
+
+def _key_identifier(key: Any) -> x509.SubjectKeyIdentifier | None:
+    try:
+        return x509.SubjectKeyIdentifier.from_public_key(key.public_key())
+    except (TypeError, ValueError):  # key types the helper does not know (ML-DSA ...)
+        return None
+
+
 def certificate(
     key: Any,
     common_name: str,
@@ -62,8 +95,17 @@ def certificate(
     ca: bool = False,
     dns: tuple[str, ...] = (),
     code_signing: bool = False,
+    hash_name: str = "sha256",
+    not_before: datetime.datetime = NOW,
+    days: int = 365,
+    key_identifiers: bool = True,
 ) -> x509.Certificate:
-    """A certificate for key; self-signed unless an issuer key and certificate are given."""
+    """A certificate for key; self-signed unless an issuer key and certificate are given.
+
+    ``hash_name`` md5 or sha1 gives a legacy RSA signature (see _resign_rsa). With
+    ``key_identifiers`` the certificate has a subject key identifier and, when issued, an
+    authority key identifier naming the issuer's key (RFC 5280, sections 4.2.1.1-2).
+    """
     subject = x509.Name([x509.NameAttribute(NameOID.COMMON_NAME, common_name)])
     signer = issuer_key or key
     builder = (
@@ -72,8 +114,8 @@ def certificate(
         .issuer_name(issuer.subject if issuer else subject)
         .public_key(key.public_key())
         .serial_number(x509.random_serial_number())
-        .not_valid_before(NOW)
-        .not_valid_after(NOW + datetime.timedelta(days=365))
+        .not_valid_before(not_before)
+        .not_valid_after(not_before + datetime.timedelta(days=days))
         .add_extension(x509.BasicConstraints(ca=ca, path_length=None), critical=True)
     )
     if ca:
@@ -94,7 +136,21 @@ def certificate(
         builder = builder.add_extension(
             x509.SubjectAlternativeName([x509.DNSName(name) for name in dns]), False
         )
-    return builder.sign(signer, _hash_for(signer))
+    if key_identifiers:
+        own = _key_identifier(key)
+        if own is not None:
+            builder = builder.add_extension(own, False)
+        issuer_id = _key_identifier(signer)
+        if issuer_key is not None and issuer_id is not None:
+            builder = builder.add_extension(
+                x509.AuthorityKeyIdentifier(issuer_id.digest, None, None), False
+            )
+    cert = builder.sign(signer, _hash_for(signer))
+    if hash_name != "sha256":
+        if not isinstance(signer, rsa.RSAPrivateKey):
+            raise ValueError("legacy hashes are built for RSA signers only")
+        cert = _resign_rsa(cert, signer, hash_name)
+    return cert
 
 
 def csr(key: Any, common_name: str) -> x509.CertificateSigningRequest:

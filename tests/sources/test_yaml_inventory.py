@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import datetime
 import time
 import tracemalloc
 from pathlib import Path
@@ -64,6 +65,18 @@ def test_minimal_example_from_the_format_is_valid(tmp_path: Path) -> None:
     assert len(inv.source_sha256 or "") == 64
 
 
+def test_role_and_validity_are_read(tmp_path: Path) -> None:
+    text = ("version: 1\norganization: O\nsystems:\n  - id: a\n    shelf_life_years: 1\n"
+            "    migration_years: 1\n    uses:\n"
+            "      - {purpose: signature, algorithm: RSA, key_size: 2048, not_before: 2025-01-01,"
+            " not_after: '2045-01-01'}\n"
+            "      - {purpose: integrity, algorithm: hmac-sha1, role: offered}\n")
+    first, second = load_inventory(_write(tmp_path, text)).systems[0].uses
+    assert (first.role, first.not_before, first.not_after) == (
+        "in-use", datetime.date(2025, 1, 1), datetime.date(2045, 1, 1))
+    assert (second.role, second.not_after) == ("offered", None)
+
+
 def test_defaults_fill_missing_fields(tmp_path: Path) -> None:
     text = ("version: 1\norganization: O\ndefaults: {shelf_life_years: 4, migration_years: 1, exposure: internet}\n"
             "systems:\n  - id: a\n    uses: []\n")
@@ -105,6 +118,12 @@ def test_defaults_fill_missing_fields(tmp_path: Path) -> None:
         ("version: 1\norganization: O\nsystems:\n  - {id: a, shelf_life_years: 1, migration_years: 1,"
          " uses: [{purpose: signature, algorithm: RSA, key_size: 99999999999999999999999}]}\n",
          "inv.yaml:4:108: 'key_size' in use #1 of system 'a' is 99999999999999999999999, above the maximum 65536; check the unit (years, bits)"),
+        ("version: 1\norganization: O\nsystems:\n  - {id: a, shelf_life_years: 1, migration_years: 1,"
+         " uses: [{purpose: signature, algorithm: RSA, role: offerd}]}\n",
+         "inv.yaml:4:104: 'role' in use #1 of system 'a' is 'offerd', not a known value; did you mean 'offered'?"),
+        ("version: 1\norganization: O\nsystems:\n  - {id: a, shelf_life_years: 1, migration_years: 1,"
+         " uses: [{purpose: signature, algorithm: RSA, not_after: '2030-13-01'}]}\n",
+         "inv.yaml:4:109: 'not_after' in use #1 of system 'a' is '2030-13-01', not a date; write YYYY-MM-DD"),
         ("version: 1\norganization: O\nsystems: {a: 1}\n",
          "inv.yaml:3:10: 'systems' must be a list, got a mapping"),
         ("", "inv.yaml:1:1: the file is empty; run 'pqtriage init' for a template"),

@@ -8,6 +8,7 @@ reached). Bad usage raises a :class:`~pqtriage.errors.PqtriageError` subclass (e
 
 from __future__ import annotations
 
+import datetime as dt
 from typing import Any
 
 from pqtriage.errors import UsageError
@@ -34,11 +35,13 @@ def probe_inventory(
     organization: str = DEFAULT_ORGANIZATION,
     shelf_life_years: float = DEFAULT_SHELF_LIFE_YEARS,
     migration_years: float = DEFAULT_MIGRATION_YEARS,
+    as_of: dt.date | None = None,
 ) -> CommandResult:
     """Probe explicitly named TLS (``host:port``) and SSH (``ssh://host:port``) endpoints.
 
     One system per target. Every target is parsed before any connection is made, so bad
-    usage fails fast with exit code 2.
+    usage fails fast with exit code 2. ``as_of`` (default today) is the date the remaining
+    validity of the certificates seen is counted from.
     """
     check_format(output_format)
     check_years(shelf_life_years, migration_years)
@@ -73,5 +76,5 @@ def probe_inventory(
     return finish_inventory(
         findings, GroupBy.FILE, organization, shelf_life_years, migration_years, merge,
         target_scope([t.text for t in parsed if t.text in extras]), output_format,
-        summary, bool(problems), extras, unreached,
+        summary, bool(problems), extras, unreached, as_of or dt.date.today(),
     )  # fmt: skip

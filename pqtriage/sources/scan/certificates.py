@@ -1,7 +1,8 @@
 """Describe cryptography-library certificates and keys as findings.
 
 Facts only: subject, issuer, validity, key algorithm with size, curve or parameter set,
-signature algorithm, CA flag, key usage. For a private key, only its type and size.
+signature algorithm and its hash, key identifiers, CA flag, key usage. For a private key,
+only its type and size.
 
 Purpose rule for a certificate's own key (documented in docs/discovery.md):
   - a CA certificate (basicConstraints cA true, or keyUsage keyCertSign / cRLSign) -> signature;
@@ -208,8 +209,39 @@ def _certificate_key(cert: x509.Certificate) -> KeyFacts:
     return facts or KeyFacts(f"unknown ({cert.public_key_algorithm_oid.dotted_string})")
 
 
-def signature_facts(cert: x509.Certificate) -> tuple[KeyFacts, tuple[str, ...]]:
-    """Facts of the issuer's signature on a certificate, with notes (hash ...).
+#: The cryptography library's hash names -> catalog spellings (FIPS 180-4, FIPS 202, RFC 1321).
+_HASH_NAMES = {
+    "md5": "MD5",
+    "sha1": "SHA-1",
+    "sha224": "SHA-224",
+    "sha256": "SHA-256",
+    "sha384": "SHA-384",
+    "sha512": "SHA-512",
+    "sha3-224": "SHA3-224",
+    "sha3-256": "SHA3-256",
+    "sha3-384": "SHA3-384",
+    "sha3-512": "SHA3-512",
+}
+
+
+def signature_hash(cert: x509.Certificate, table_hash: str | None) -> str | None:
+    """The hash inside the certificate's signature, in catalog spelling, or None (EdDSA,
+    ML-DSA and SLH-DSA hash internally: no separate hash).
+
+    The identifier table names the hash of each signature OID; RSASSA-PSS carries its hash
+    in the algorithm parameters (RFC 4055, section 3.1), which the library reads.
+    """
+    if table_hash and table_hash in _HASH_NAMES.values():
+        return table_hash
+    try:
+        algorithm = cert.signature_hash_algorithm
+    except (UnsupportedAlgorithm, ValueError):
+        return None
+    return _HASH_NAMES.get(algorithm.name) if algorithm is not None else None
+
+
+def signature_facts(cert: x509.Certificate) -> tuple[KeyFacts, str | None, tuple[str, ...]]:
+    """Facts of the issuer's signature on a certificate: key facts, hash, notes.
 
     For RSA the signature is as long as the issuer's modulus (RFC 8017, section 8.2.1:
     the signature is an octet string of length k, the modulus length in octets), so the
@@ -218,23 +250,44 @@ def signature_facts(cert: x509.Certificate) -> tuple[KeyFacts, tuple[str, ...]]:
     oid = cert.signature_algorithm_oid.dotted_string
     entry = identifiers().signature_algorithms.get(oid)
     if entry is None:
-        return KeyFacts(f"unknown ({oid})"), ("signature algorithm not in the identifier table",)
+        return (
+            KeyFacts(f"unknown ({oid})"),
+            None,
+            ("signature algorithm not in the identifier table",),
+        )
+    digest = signature_hash(cert, entry.hash)
     notes = []
-    if entry.hash:
-        notes.append(f"hash={entry.hash}")
+    if digest:
+        notes.append(f"hash={digest}")
     if entry.notes:
         notes.append(entry.notes)
     key_size = len(cert.signature) * 8 if entry.algorithm == "RSA" else None
-    return KeyFacts(entry.algorithm, key_size=key_size, parameter_set=entry.parameter_set), tuple(
-        notes
+    facts = KeyFacts(entry.algorithm, key_size=key_size, parameter_set=entry.parameter_set)
+    return facts, digest, tuple(notes)
+
+
+def _key_identifiers(values: dict[type, object]) -> tuple[str | None, str | None]:
+    """(subject key identifier, authority key identifier) as hex (RFC 5280, 4.2.1.1-2)."""
+    subject = values.get(x509.SubjectKeyIdentifier)
+    authority = values.get(x509.AuthorityKeyIdentifier)
+    ski = subject.digest.hex() if isinstance(subject, x509.SubjectKeyIdentifier) else None
+    aki = (
+        authority.key_identifier.hex()
+        if isinstance(authority, x509.AuthorityKeyIdentifier) and authority.key_identifier
+        else None
     )
+    return ski, aki
 
 
 def describe_certificate(
     cert: x509.Certificate, source: SourceRef, protocol: str | None = None
 ) -> list[Finding]:
-    """Return two findings for a certificate: its own key, and the issuer's signature on it.
+    """Return the findings of a certificate: its own key, the issuer's signature on it and,
+    when the signature algorithm has one, the hash inside that signature (its own use, so a
+    SHA-1 or MD5 signed certificate is rated like any other SHA-1 or MD5 signature).
 
+    The issuer's key facts (an ECDSA curve ...) are filled in later by
+    :func:`pqtriage.sources.scan.issuers.link_issuers`, once every certificate is known.
     Raises ValueError when the subject, issuer or validity does not parse (the library parses
     them on first use, not at load); extensions that do not parse are noted and ignored.
     """
@@ -245,6 +298,7 @@ def describe_certificate(
     usage, ca, signing_only_eku = _key_usage(values)
     facts = _certificate_key(cert)
     dns = _dns_names(values)
+    ski, aki = _key_identifiers(values)
     common = {
         "subject": subject_text,
         "subject_name": _common_name(subject) or (dns[0] if dns else None) or subject_text,
@@ -255,6 +309,9 @@ def describe_certificate(
         "key_usage": usage,
         "host": dns[0] if dns else None,
         "protocol": protocol,
+        "subject_key_id": ski,
+        "authority_key_id": aki,
+        "certificate": cert,
     }
     key = Finding(
         source=source,
@@ -267,23 +324,37 @@ def describe_certificate(
         notes=extension_note,
         **common,  # type: ignore[arg-type]
     )
-    signature, notes = signature_facts(cert)
+    signature, digest, notes = signature_facts(cert)
     self_signed = issuer == subject
-    if self_signed and signature.algorithm == facts.algorithm and facts.curve:
-        signature = KeyFacts(signature.algorithm, facts.key_size, facts.curve, facts.parameter_set)
-    sig_source = SourceRef(source.file, source.line, source.column, _suffix(source, "signature"))
+    marker = ("self-signed",) if self_signed else ()
     signed = Finding(
-        source=sig_source,
+        source=_with_suffix(source, "signature"),
         kind=FindingKind.CERTIFICATE_SIGNATURE,
         algorithm=signature.algorithm,
         purpose=Purpose.SIGNATURE,
         key_size=signature.key_size,
         curve=signature.curve,
         parameter_set=signature.parameter_set,
-        notes=notes + (("self-signed",) if self_signed else ()) + extension_note,
+        notes=notes + marker + extension_note,
         **common,  # type: ignore[arg-type]
     )
-    return [key, signed]
+    found = [key, signed]
+    if digest:
+        found.append(
+            Finding(
+                source=_with_suffix(source, "signature-hash"),
+                kind=FindingKind.CERTIFICATE_SIGNATURE_HASH,
+                algorithm=digest,
+                purpose=Purpose.SIGNATURE,
+                notes=(
+                    f"hash of the {signature.algorithm} signature "
+                    f"({cert.signature_algorithm_oid._name or cert.signature_algorithm_oid.dotted_string})",
+                )
+                + marker,
+                **common,  # type: ignore[arg-type]
+            )
+        )
+    return found
 
 
 def describe_csr(csr: x509.CertificateSigningRequest, source: SourceRef) -> list[Finding]:
@@ -328,5 +399,6 @@ def describe_key(
     ]
 
 
-def _suffix(source: SourceRef, role: str) -> str:
-    return f"{source.detail}.{role}" if source.detail else role
+def _with_suffix(source: SourceRef, role: str) -> SourceRef:
+    detail = f"{source.detail}.{role}" if source.detail else role
+    return SourceRef(source.file, source.line, source.column, detail)

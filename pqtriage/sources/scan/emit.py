@@ -2,10 +2,16 @@
 
 Values a scan cannot know come from documented defaults and are listed in each system's
 ``assumed``: shelf-life (Mosca's x), migration time (Mosca's y) and exposure.
+
+A signature that rests on a certificate must stay unforgeable at least while the certificate
+is valid: its ``trust_years`` is the certificate's remaining validity at the scan date
+(``--as-of``, default today), for the CA's or signer's own key and for the signature (and its
+hash) on the certificate. The validity dates are kept on the use as facts.
 """
 
 from __future__ import annotations
 
+import datetime as dt
 import json
 import re
 from collections.abc import Mapping
@@ -13,6 +19,8 @@ from typing import Any
 
 import yaml
 
+from pqtriage.model.inventory import IN_USE, Purpose
+from pqtriage.model.validity import MAX_YEARS, remaining_years
 from pqtriage.sources.scan.findings import Finding
 from pqtriage.sources.scan.grouping import Group
 
@@ -49,10 +57,6 @@ def use_notes(finding: Finding) -> str | None:
         parts.append(f"subject={finding.subject}")
     if finding.issuer:
         parts.append(f"issuer={finding.issuer}")
-    if finding.not_before:
-        parts.append(f"not_before={finding.not_before}")
-    if finding.not_after:
-        parts.append(f"not_after={finding.not_after}")
     if finding.ca is not None:
         parts.append("CA" if finding.ca else "not CA")
     if finding.key_usage:
@@ -61,8 +65,20 @@ def use_notes(finding: Finding) -> str | None:
     return "; ".join(parts) if parts else None
 
 
-def use_dict(finding: Finding) -> dict[str, Any]:
-    """One use in the inventory format."""
+def trust_from_validity(not_after: str, as_of: dt.date) -> tuple[float, str]:
+    """Remaining validity in years at ``as_of`` (0 when expired, capped at 100), with the note
+    explaining it (the pure core's rule, :func:`pqtriage.model.validity.remaining_years`)."""
+    end = dt.date.fromisoformat(not_after)
+    years = remaining_years(end, as_of)
+    if years >= MAX_YEARS:
+        return years, f"trust_years: valid until {end.isoformat()}, capped at {MAX_YEARS:g} years"
+    if years == 0:
+        return 0.0, f"trust_years: certificate expired on {end.isoformat()} (before {as_of.isoformat()})"
+    return years, f"trust_years: remaining validity on {as_of.isoformat()}"
+
+
+def use_dict(finding: Finding, as_of: dt.date | None = None) -> dict[str, Any]:
+    """One use in the inventory format; ``as_of`` dates the remaining validity of certificates."""
     use: dict[str, Any] = {"purpose": finding.purpose.value, "algorithm": finding.algorithm}
     if finding.key_size is not None:
         use["key_size"] = finding.key_size
@@ -73,6 +89,15 @@ def use_dict(finding: Finding) -> dict[str, Any]:
     if finding.protocol is not None:
         use["protocol"] = finding.protocol
     notes = use_notes(finding)
+    if finding.purpose is Purpose.SIGNATURE and finding.not_after and as_of is not None:
+        use["trust_years"], trust_note = trust_from_validity(finding.not_after, as_of)
+        notes = f"{notes}; {trust_note}" if notes else trust_note
+    if finding.role != IN_USE:
+        use["role"] = finding.role
+    if finding.not_before:
+        use["not_before"] = finding.not_before
+    if finding.not_after:
+        use["not_after"] = finding.not_after
     if notes:
         use["notes"] = notes
     use["source"] = finding.locator()
@@ -85,8 +110,10 @@ def inventory_dict(
     shelf_life_years: float = DEFAULT_SHELF_LIFE_YEARS,
     migration_years: float = DEFAULT_MIGRATION_YEARS,
     system_extras: Mapping[str, Mapping[str, Any]] | None = None,
+    as_of: dt.date | None = None,
 ) -> dict[str, Any]:
-    """Build the inventory document; ``system_extras`` adds protocol / notes per group key."""
+    """Build the inventory document; ``system_extras`` adds protocol / notes per group key,
+    ``as_of`` is the date certificates' remaining validity is counted from."""
     taken: set[str] = set()
     systems = []
     for group in groups:
@@ -108,7 +135,7 @@ def inventory_dict(
         seen: set[str] = set()
         uses = []
         for finding in group.findings:
-            use = use_dict(finding)
+            use = use_dict(finding, as_of)
             # Sources identify uses (merge relies on it): keep them unique.
             use["source"] = unique_id(use["source"], seen)
             uses.append(use)

@@ -5,10 +5,14 @@ Pure data. A Finding never holds key material: for a private key only its type a
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from enum import Enum
+from typing import TYPE_CHECKING
 
-from pqtriage.model.inventory import Purpose, SourceRef
+from pqtriage.model.inventory import IN_USE, Purpose, SourceRef
+
+if TYPE_CHECKING:
+    from cryptography import x509
 
 
 class FindingKind(str, Enum):
@@ -16,6 +20,8 @@ class FindingKind(str, Enum):
 
     CERTIFICATE_KEY = "certificate-key"
     CERTIFICATE_SIGNATURE = "certificate-signature"
+    CERTIFICATE_SIGNATURE_HASH = "certificate-signature-hash"
+    """The hash inside a certificate's signature (SHA-1 in sha1WithRSAEncryption ...)."""
     CSR_KEY = "csr-key"
     PUBLIC_KEY = "public-key"
     PRIVATE_KEY = "private-key"
@@ -108,6 +114,16 @@ class Finding:
     """Protocol carrying the use (TLS 1.3, SSH ...)."""
     notes: tuple[str, ...] = ()
     """Short facts worth keeping beside the use (hash, encryption, markers ...)."""
+    role: str = IN_USE
+    """``in-use``, or ``offered`` for a method a server offers that a current client does not
+    negotiate (probes)."""
+    subject_key_id: str | None = None
+    """Subject key identifier of a certificate (hex), used to find what it signed."""
+    authority_key_id: str | None = None
+    """Authority key identifier of a certificate (hex), used to find its issuer."""
+    certificate: x509.Certificate | None = field(default=None, compare=False, repr=False)
+    """The parsed certificate, kept only to confirm issuers by their signature (public data,
+    never written to any output)."""
 
     def locator(self) -> str:
         """Return the source as one string: ``path#block2``, ``path#line3``, ``host:port#group``."""

@@ -26,6 +26,7 @@ _SECTIONS = (
     "signature_algorithms",
     "tls_hybrid_groups",
     "tls_post_quantum_groups",
+    "tls_key_exchange_prefixes",
     "ssh_hybrid_kex",
     "ssh_pseudo_algorithms",
 )
@@ -61,6 +62,8 @@ class Identifiers:
     """TLS groups combining a classical and a post-quantum key exchange."""
     tls_post_quantum_groups: frozenset[str]
     """TLS groups that are post-quantum only."""
+    tls_key_exchange_prefixes: dict[str, str]
+    """OpenSSL TLS 1.2 suite name prefix -> key exchange (ECDH, FFDH, RSA, PSK, SRP)."""
     ssh_hybrid_kex: frozenset[str]
     """SSH key exchange methods that are hybrid post-quantum."""
     ssh_pseudo_algorithms: frozenset[str]
@@ -99,6 +102,15 @@ def _name_rows(rows: Any, section: str) -> frozenset[str]:
     return frozenset(names)
 
 
+def _prefix_rows(rows: Any) -> dict[str, str]:
+    table: dict[str, str] = {}
+    for index, row in enumerate(rows):
+        if not isinstance(row, dict) or set(row) != {"name", "key_exchange", "source"}:
+            raise _fail(f"tls_key_exchange_prefixes[{index}] needs name, key_exchange and source")
+        table[str(row["name"])] = str(row["key_exchange"])
+    return table
+
+
 @functools.cache
 def identifiers() -> Identifiers:
     """Return the identifier tables, loading and validating them on first use."""
@@ -116,6 +128,7 @@ def identifiers() -> Identifiers:
         tls_post_quantum_groups=_name_rows(
             data["tls_post_quantum_groups"], "tls_post_quantum_groups"
         ),
+        tls_key_exchange_prefixes=_prefix_rows(data["tls_key_exchange_prefixes"]),
         ssh_hybrid_kex=_name_rows(data["ssh_hybrid_kex"], "ssh_hybrid_kex"),
         ssh_pseudo_algorithms=_name_rows(data["ssh_pseudo_algorithms"], "ssh_pseudo_algorithms"),
     )

@@ -4,8 +4,11 @@ Semantics (docs/discovery.md):
   - A use is identified by its ``source`` string (``path#block2``, ``host:port#group``).
   - A scanned use whose source is already in the inventory stays where it is (even in a
     system the owner moved it to). Only the facts the scan reads (algorithm, key_size, curve,
-    parameter_set, protocol) are refreshed, and each change is reported. Every other field,
-    notes included, is the owner's and is kept.
+    parameter_set, protocol, role, not_before, not_after) are refreshed, and each change is
+    reported. ``trust_years`` only grows: the longer of the owner's value and the remaining
+    validity of the certificate now found (a renewed certificate lengthens it; an owner's
+    longer trust period is never cut). Every other field, notes included, is the owner's
+    and is kept.
   - A scanned system matches an existing one by its ``source``; hand-written system fields
     are kept. Fields still listed in ``assumed`` take the scan's defaults.
   - New uses join their matched system; new systems are appended with an id made unique.
@@ -27,7 +30,9 @@ from pqtriage.errors import InventoryError
 from pqtriage.sources.scan.emit import unique_id
 
 #: Use fields whose values a scan reads from the material itself.
-SCANNED_FACTS = ("algorithm", "key_size", "curve", "parameter_set", "protocol")
+SCANNED_FACTS = (
+    "algorithm", "key_size", "curve", "parameter_set", "protocol", "role", "not_before", "not_after",
+)  # fmt: skip
 
 
 @dataclass
@@ -141,6 +146,15 @@ def _refresh_use(old: dict[str, Any], new: dict[str, Any], report: MergeReport) 
                 old[name] = new[name]
             else:
                 old.pop(name, None)
+    old_trust, new_trust = old.get("trust_years"), new.get("trust_years")
+    if (
+        isinstance(new_trust, int | float)
+        and isinstance(old_trust, int | float)
+        and not isinstance(old_trust, bool)
+        and new_trust > old_trust
+    ):
+        report.updated_uses.append(f"{new['source']}: trust_years {old_trust!r} -> {new_trust!r}")
+        old["trust_years"] = new_trust
     for name, value in new.items():
         old.setdefault(name, value)
 

@@ -117,6 +117,8 @@ def _key_line_findings(
                 protocol="SSH",
                 subject=f"key id {facts.key_id}",
                 subject_name=facts.key_id,
+                not_before=_date(facts.valid_after),
+                not_after=_date(facts.valid_before),
                 notes=(f"certificate authority key type {signer.key_type}",),
             )
         )

@@ -8,6 +8,7 @@ the text (atomically) or prints it.
 
 from __future__ import annotations
 
+import datetime as dt
 from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
@@ -103,11 +104,13 @@ def finish_inventory(
     failed: bool,
     system_extras: dict[str, dict[str, Any]] | None = None,
     unreached: list[tuple[str, str]] | None = None,
+    as_of: dt.date | None = None,
 ) -> CommandResult:
-    """Group the findings into systems, merge if asked, and render the inventory."""
+    """Group the findings into systems, merge if asked, and render the inventory (``as_of``:
+    the date certificates' remaining validity is counted from)."""
     groups = group_findings(findings, group_by)
     document = inventory_dict(
-        groups, organization, shelf_life_years, migration_years, system_extras
+        groups, organization, shelf_life_years, migration_years, system_extras, as_of
     )
     if unreached and merge is None:
         # A target that could not be probed is not dropped: it becomes a system with no

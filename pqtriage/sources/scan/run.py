@@ -9,6 +9,7 @@ writes nothing; progress is reported through a plain callback the caller supplie
 from __future__ import annotations
 
 import dataclasses
+import datetime as dt
 import os
 from collections.abc import Callable
 from contextlib import AbstractContextManager, nullcontext
@@ -62,6 +63,7 @@ def scan_inventory(
     migration_years: float = DEFAULT_MIGRATION_YEARS,
     max_file_bytes: int = DEFAULT_MAX_FILE_BYTES,
     progress: Progress | None = None,
+    as_of: dt.date | None = None,
     keystore_passwords: tuple[bytes, ...] = (),
     keystore_password_file: str | None = None,
     openssh_version: str | None = None,
@@ -79,6 +81,7 @@ def scan_inventory(
         shelf_life_years, migration_years: defaults written and marked assumed.
         max_file_bytes: larger files are skipped with a note.
         progress: reports progress (the CLI's progress bar); None reports nothing.
+        as_of: date the remaining validity of certificates is counted from (default today).
         keystore_passwords: passwords to try on keystores and PKCS#12 bundles (never shown).
         keystore_password_file: file whose first line is one more such password.
         openssh_version: OpenSSH version whose defaults apply to sshd_config / ssh_config
@@ -124,6 +127,7 @@ def scan_inventory(
     inventory = finish_inventory(
         list(result.findings) + damaged_findings(result.problems), rule, organization, shelf_life_years, migration_years, merge,
         path_scope(list(paths)), output_format, summary, not result.complete,
+        as_of=as_of or dt.date.today(),
     )  # fmt: skip
     details = result.summary.to_dict() if result.summary is not None else {}
     details["files_read"] = result.files_read

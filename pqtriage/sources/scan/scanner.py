@@ -8,7 +8,6 @@ case they are reported as corrupt.
 
 from __future__ import annotations
 
-import dataclasses
 import os
 from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass
@@ -19,11 +18,11 @@ from pqtriage.sources.scan.finders.interface import Finder, FinderContext
 from pqtriage.sources.scan.finders.openssl_cli import system_expander
 from pqtriage.sources.scan.findings import (
     Finding,
-    FindingKind,
     ParseOutcome,
     ProblemKind,
     ScanProblem,
 )
+from pqtriage.sources.scan.issuers import link_issuers
 from pqtriage.sources.scan.recognise import material_name_fallback, recognise
 from pqtriage.sources.scan.walker import DEFAULT_MAX_FILE_BYTES, FileEntry, read_file, walk
 
@@ -107,7 +106,7 @@ def scan_entries(
             advance(entry.path)
     summary = dispatcher.summary
     understood = summary.understood
-    findings = dispatcher.link_facts(fill_issuer_facts(findings))
+    findings = dispatcher.link_facts(link_issuers(findings))
     return ScanResult(tuple(findings), tuple(problems), read, understood, summary)
 
 
@@ -128,37 +127,3 @@ def scan_paths(
     """Walk and scan in one call (no progress reporting)."""
     entries, problems = plan(paths, max_file_bytes)
     return scan_entries(entries, problems, password, max_file_bytes)
-
-
-def fill_issuer_facts(findings: list[Finding]) -> list[Finding]:
-    """Give a certificate signature the issuer's curve and size when the issuer was also found.
-
-    Issuer and subject are matched by their RFC 4514 names; only facts missing from the
-    signature are filled, and the fill is noted.
-    """
-    issuers: dict[str, Finding] = {}
-    for finding in findings:
-        if finding.kind is FindingKind.CERTIFICATE_KEY and finding.subject is not None:
-            issuers.setdefault(finding.subject, finding)
-    result = []
-    for finding in findings:
-        issuer = issuers.get(finding.issuer or "") if finding.issuer else None
-        if (
-            finding.kind is FindingKind.CERTIFICATE_SIGNATURE
-            and issuer is not None
-            and issuer.algorithm == finding.algorithm
-            and (
-                finding.curve is None
-                and issuer.curve is not None
-                or finding.key_size is None
-                and issuer.key_size is not None
-            )
-        ):
-            finding = dataclasses.replace(
-                finding,
-                curve=finding.curve or issuer.curve,
-                key_size=finding.key_size or issuer.key_size,
-                notes=finding.notes + (f"issuer key from {issuer.locator()}",),
-            )
-        result.append(finding)
-    return result

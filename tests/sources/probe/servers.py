@@ -16,7 +16,9 @@ import time
 from collections.abc import Callable, Iterator
 from contextlib import contextmanager
 from pathlib import Path
+from typing import Any
 
+from cryptography import x509
 from cryptography.hazmat.primitives.asymmetric import ec
 from OpenSSL import SSL
 
@@ -110,6 +112,55 @@ def pyopenssl_server(folder: Path) -> Iterator[int]:
         yield port
 
 
+@contextmanager
+def tls_server(
+    folder: Path,
+    chain: list[x509.Certificate],
+    key: Any,
+    ciphers: str | None = None,
+    tls12_only: bool = False,
+    pyopenssl: bool = False,
+) -> Iterator[int]:
+    """A TLS server that sends ``chain`` (leaf first) with ``key``.
+
+    Python's ssl module (the system OpenSSL) or pyOpenSSL (the cryptography library's); the
+    security level is lowered to 0 so that legacy material (RSA-1024, SHA-1 and MD5 signed
+    chains, RSA key transport) is served as old servers still do.
+    """
+    folder.mkdir(parents=True, exist_ok=True)
+    chain_file = m.write(folder / "chain.pem", b"".join(m.cert_pem(c) for c in chain))
+    key_file = m.write(folder / "key.pem", m.private_pem(key))
+    suites = f"{ciphers or 'DEFAULT'}:@SECLEVEL=0"
+    if pyopenssl:
+        context = SSL.Context(SSL.TLS_SERVER_METHOD)
+        context.set_cipher_list(suites.encode())
+        if tls12_only:
+            context.set_max_proto_version(SSL.TLS1_2_VERSION)
+        context.use_certificate_chain_file(str(chain_file))
+        context.use_privatekey_file(str(key_file))
+
+        def handle(conn: socket.socket) -> None:
+            conn.setblocking(True)
+            tls = SSL.Connection(context, conn)
+            tls.set_accept_state()
+            tls.do_handshake()
+            tls.shutdown()
+
+    else:
+        py_context = ssl.SSLContext(ssl.PROTOCOL_TLS_SERVER)
+        py_context.set_ciphers(suites)
+        if tls12_only:
+            py_context.maximum_version = ssl.TLSVersion.TLSv1_2
+        py_context.load_cert_chain(chain_file, key_file)
+
+        def handle(conn: socket.socket) -> None:
+            with py_context.wrap_socket(conn, server_side=True) as tls:
+                tls.recv(1)
+
+    with _serve(handle) as port:
+        yield port
+
+
 class Overlap:
     """Counts client connections open at the same moment across servers.
 
@@ -184,19 +235,31 @@ def sshd_missing_reason() -> str | None:
 
 
 @contextmanager
-def sshd_server(folder: Path, extra_config: str = "") -> Iterator[int]:
-    """Debian's OpenSSH server on a loopback port with a fresh host key and a temp config."""
-    host_key = folder / "ssh_host_ed25519_key"
-    subprocess.run(
-        ["ssh-keygen", "-q", "-t", "ed25519", "-N", "", "-f", str(host_key)],
-        check=True,
-        timeout=30,
-    )
+def sshd_server(
+    folder: Path, extra_config: str = "", host_keys: tuple[str, ...] = ("ed25519",)
+) -> Iterator[int]:
+    """Debian's OpenSSH server on a loopback port with fresh host keys and a temp config.
+
+    ``host_keys`` are ssh-keygen types, with a size for RSA: ``ed25519``, ``ecdsa``,
+    ``rsa:3072`` ...
+    """
+    lines = []
+    for spec in host_keys:
+        kind, _, bits = spec.partition(":")
+        host_key = folder / f"ssh_host_{kind}{bits}_key"
+        size = ["-b", bits] if bits else []
+        subprocess.run(
+            ["ssh-keygen", "-q", "-t", kind, *size, "-N", "", "-f", str(host_key)],
+            check=True,
+            timeout=60,
+        )
+        lines.append(f"HostKey {host_key}")
     with closed_port() as port:
         pass
     config = folder / "sshd_config"
+    keys = "\n".join(lines)
     config.write_text(
-        f"Port {port}\nListenAddress 127.0.0.1\nHostKey {host_key}\nPidFile none\n"
+        f"Port {port}\nListenAddress 127.0.0.1\n{keys}\nPidFile none\n"
         f"UsePAM no\nStrictModes no\n{extra_config}\n"
     )
     os.makedirs("/run/sshd", exist_ok=True)

@@ -50,7 +50,12 @@ def test_certificate_and_private_key(
     key = factory()
     cert = m.certificate(key, "Fictional Signing CA", ca=True)
     outcome = classify(m.cert_pem(cert), "ca.pem")
-    key_finding, signature = outcome.findings
+    key_finding, signature, *hashes = outcome.findings
+    # The hash inside the signature is its own use; EdDSA and ML-DSA hash internally.
+    hashed = algorithm in ("RSA", "ECDSA", "DSA")
+    assert [(h.kind, h.algorithm, h.purpose) for h in hashes] == (
+        [(FindingKind.CERTIFICATE_SIGNATURE_HASH, "SHA-256", Purpose.SIGNATURE)] if hashed else []
+    )
     assert key_finding.kind is FindingKind.CERTIFICATE_KEY
     assert (key_finding.algorithm, key_finding.key_size, key_finding.curve) == (
         algorithm, size, curve,
@@ -101,7 +106,8 @@ def test_leaf_certificate_purpose_and_issuer_size() -> None:
     ca = m.certificate(ca_key, "Fictional Root", ca=True)
     leaf_key = m.ec_key(ec.SECP384R1())
     leaf = m.certificate(leaf_key, "shop.example.test", ca_key, ca, dns=("shop.example.test",))
-    key_finding, signature = classify(m.cert_pem(leaf), "leaf.pem").findings
+    key_finding, signature, digest = classify(m.cert_pem(leaf), "leaf.pem").findings
+    assert (digest.algorithm, digest.locator()) == ("SHA-256", "leaf.pem#block1.signature-hash")
     assert key_finding.purpose is Purpose.AUTHENTICATION  # TLS server leaf
     assert key_finding.ca is False and "serverAuth" in key_finding.key_usage
     assert key_finding.host == "shop.example.test"
@@ -132,15 +138,19 @@ def test_multi_block_pem_bundle_numbers_every_block() -> None:
     assert kinds == [
         ("bundle.pem#block1", FindingKind.CERTIFICATE_KEY),
         ("bundle.pem#block1.signature", FindingKind.CERTIFICATE_SIGNATURE),
+        ("bundle.pem#block1.signature-hash", FindingKind.CERTIFICATE_SIGNATURE_HASH),
         ("bundle.pem#block2", FindingKind.CERTIFICATE_KEY),
         ("bundle.pem#block2.signature", FindingKind.CERTIFICATE_SIGNATURE),
+        ("bundle.pem#block2.signature-hash", FindingKind.CERTIFICATE_SIGNATURE_HASH),
         ("bundle.pem#block3", FindingKind.CSR_KEY),
         ("bundle.pem#block4", FindingKind.PUBLIC_KEY),
         ("bundle.pem#block5", FindingKind.PRIVATE_KEY),
         ("bundle.pem#block6.cert1", FindingKind.CERTIFICATE_KEY),
         ("bundle.pem#block6.cert1.signature", FindingKind.CERTIFICATE_SIGNATURE),
+        ("bundle.pem#block6.cert1.signature-hash", FindingKind.CERTIFICATE_SIGNATURE_HASH),
         ("bundle.pem#block6.cert2", FindingKind.CERTIFICATE_KEY),
         ("bundle.pem#block6.cert2.signature", FindingKind.CERTIFICATE_SIGNATURE),
+        ("bundle.pem#block6.cert2.signature-hash", FindingKind.CERTIFICATE_SIGNATURE_HASH),
     ]
     # The leaf's ECDSA signature takes the issuer's curve from the CA found beside it.
     signature = scan_bundle_signature(bundle)
@@ -148,9 +158,9 @@ def test_multi_block_pem_bundle_numbers_every_block() -> None:
 
 
 def scan_bundle_signature(bundle: bytes) -> Any:
-    from pqtriage.sources.scan.scanner import fill_issuer_facts
+    from pqtriage.sources.scan.issuers import link_issuers
 
-    return fill_issuer_facts(list(classify(bundle, "b.pem").findings))[1]
+    return link_issuers(list(classify(bundle, "b.pem").findings))[1]
 
 
 def test_der_certificate_public_and_private_keys() -> None:
@@ -177,14 +187,15 @@ def test_pkcs12_plain_encrypted_and_with_password() -> None:
     leaf = m.certificate(key, "vpn.example.test", ca_key, ca)
     plain = classify(m.pkcs12_bundle(key, leaf, [ca], None), "b.p12").findings
     assert [f.locator() for f in plain] == [
-        "b.p12#key", "b.p12#cert", "b.p12#cert.signature", "b.p12#ca1", "b.p12#ca1.signature",
+        "b.p12#key", "b.p12#cert", "b.p12#cert.signature", "b.p12#cert.signature-hash",
+        "b.p12#ca1", "b.p12#ca1.signature", "b.p12#ca1.signature-hash",
     ]  # fmt: skip
     assert plain[0].curve == "P-384" and plain[0].kind is FindingKind.PRIVATE_KEY
     locked = m.pkcs12_bundle(key, leaf, [ca], b"fictional-pw")
     (found,) = classify(locked, "b.pfx").findings
     assert found.kind is FindingKind.PKCS12_ENCRYPTED and found.algorithm == "unknown"
     opened = classify(locked, "b.pfx", b"fictional-pw").findings
-    assert opened[0].curve == "P-384" and len(opened) == 5
+    assert opened[0].curve == "P-384" and len(opened) == 7
     wrong = classify(locked, "b.pfx", b"not-it").findings
     assert wrong[0].kind is FindingKind.PKCS12_ENCRYPTED
 
@@ -225,6 +236,7 @@ def test_corrupt_and_truncated_material(tmp_path: Path) -> None:
     assert [f.locator() for f in outcome.findings] == [
         "mixed.pem#block1",
         "mixed.pem#block1.signature",
+        "mixed.pem#block1.signature-hash",
     ]
     assert [(p.place, p.kind) for p in outcome.problems] == [
         ("mixed.pem#block2", ProblemKind.CORRUPT),

@@ -61,6 +61,9 @@ def test_known_hosts_markers_hashed_names_and_certificates() -> None:
     assert cert.host == "web.example.test"
     assert cert.not_before == "2025-01-01"
     assert (cert_signature.algorithm, cert_signature.purpose) == ("Ed25519", Purpose.SIGNATURE)
+    # The CA's signature must hold while the certificate is valid: it carries the validity
+    # (OpenSSH PROTOCOL.certkeys valid after / valid before), from which trust_years follows.
+    assert (cert_signature.not_before, cert_signature.not_after) == ("2025-01-01", "2025-01-02")
 
 
 def test_damaged_key_lines_are_problems_and_others_still_read() -> None:

@@ -24,7 +24,7 @@ SYSTEM_KEYS = {
 }  # fmt: skip
 USE_KEYS = {
     "purpose", "algorithm", "key_size", "curve", "parameter_set", "protocol", "notes", "source",
-    "assumed",
+    "assumed", "trust_years", "role", "not_before", "not_after",
 }  # fmt: skip
 PURPOSES = {"key-establishment", "encryption", "signature", "authentication", "integrity"}
 
@@ -103,7 +103,8 @@ def test_exit_code_one_when_something_is_unreadable(tmp_path: Path) -> None:
     assert result.exit_code == 1
     assert any(line.endswith("truncated: CERTIFICATE has no END line") for line in result.summary)
     uses = _systems(result.text)[0]["uses"]
-    assert len(uses) == 3  # the good certificate's two uses, and the damaged one kept as unknown
+    # The good (self-signed) certificate's two uses, and the damaged one kept as unknown.
+    assert len(uses) == 3
     damaged = [u for u in uses if u["algorithm"] == "unknown"]
     assert len(damaged) == 1 and damaged[0]["source"].endswith("cut.pem#block1")
     assert damaged[0]["notes"].startswith("truncated material, not assessed:")
