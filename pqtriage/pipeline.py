@@ -34,31 +34,62 @@ def parse_as_of(text: str | None) -> dt.date:
     return date
 
 
-def arrival_model_for(profile: ThreatProfile, as_of: dt.date | None = None) -> ArrivalModel:
+def arrival_model_for(
+    profile: ThreatProfile, as_of: dt.date | None = None, hardware: Any = None, design: Any = None
+) -> ArrivalModel:
     """Per-algorithm arrivals from resource estimates when the profile asks for them.
 
     With ``as_of`` the model also carries the profile, so each arrival explanation has the
-    years the algorithm falls (median and at the profile's risk tolerance).
+    years the algorithm falls (median and at the profile's risk tolerance). ``hardware`` is a
+    pqtriage.threat.hardware.Hardware (the shipped file when None); a profile's own
+    ``qubit_doubling_years`` overrides the file's.
     """
     if not profile.per_algorithm_arrival:
         return SharedArrival()
     from pqtriage.model.profile import decimal_year
     from pqtriage.threat.resource_arrival import ResourceArrivalModel
 
+    if hardware is None:
+        from pqtriage.sources.hardware_file import shipped_hardware
+
+        hardware = shipped_hardware()
+    params = hardware.parameters(doubling_years=profile.qubit_doubling_years)
     if as_of is None:
-        return ResourceArrivalModel(doubling_years=profile.qubit_doubling_years)
-    return ResourceArrivalModel(
-        doubling_years=profile.qubit_doubling_years,
-        profile=profile,
-        as_of_year=decimal_year(as_of),
-    )
+        return ResourceArrivalModel(params=params)
+    return ResourceArrivalModel(params=params, profile=profile, as_of_year=decimal_year(as_of),
+                                design=design)
+
+
+def band_for(profile: ThreatProfile, arrival: ArrivalModel, hardware: Any) -> Any:
+    """The uncertainty band of a run: the sample design, its evaluator and what it sampled."""
+    from pqtriage.model.band import BandSummary, make_design
+    from pqtriage.model.band_evaluation import band_evaluator
+
+    settings = hardware.band_settings(profile.qubit_doubling_years)
+    design = make_design(settings, profile.central_position, profile.has_band)
+    survey = ""
+    if profile.has_band:
+        survey = (f"survey position between the optimistic and pessimistic ends of "
+                  f"'{profile.name}' (central at {profile.central_position:g})")
+    methods: list[str] = []
+    candidates = getattr(arrival, "candidates", None)
+    if candidates is not None:
+        for family in ("factoring", "finite-field-dlog", "elliptic-curve-dlog"):
+            chosen = [m.id for m in candidates(family)]
+            others = f" (band also: {', '.join(chosen[1:])})" if len(chosen) > 1 else ""
+            methods.append(f"{family} {chosen[0]}{others}")
+    summary = BandSummary(settings.samples, settings.seed, survey,
+                          (settings.doubling_low, settings.doubling_years, settings.doubling_high),
+                          tuple(methods))
+    return design, band_evaluator(profile, arrival, design, summary)
 
 
 def run_triage(
-    inventory_path: str, profile_name: str | None, as_of: dt.date, cbom_defaults: str | None = None
+    inventory_path: str, profile_name: str | None, as_of: dt.date, cbom_defaults: str | None = None,
+    hardware_path: str | None = None,
 ) -> TriageResult:
-    """Load the inventory and profile, then triage."""
-    return prepare(inventory_path, profile_name, as_of, cbom_defaults).result
+    """Load the inventory, profile and hardware file, then triage."""
+    return prepare(inventory_path, profile_name, as_of, cbom_defaults, hardware_path).result
 
 
 @dataclass(frozen=True)
@@ -78,7 +109,7 @@ class TriageRun:
 
         r = self.result
         return sensitivity(r, r.inventory, self.catalog, r.profile, self.arrival, r.as_of,
-                           shifts or DEFAULT_SHIFTS)
+                           shifts or DEFAULT_SHIFTS)  # band flips come from the result's bands
 
     def plan(self, policy_ids: tuple[str, ...] = (), capacity: str | None = None) -> Any:
         """Build the migration plan for this result."""
@@ -104,20 +135,36 @@ def load_any(inventory_path: str, cbom_defaults: str | None = None) -> Any:
 
 
 def prepare(
-    inventory_path: str, profile_name: str | None, as_of: dt.date, cbom_defaults: str | None = None
+    inventory_path: str, profile_name: str | None, as_of: dt.date, cbom_defaults: str | None = None,
+    hardware_path: str | None = None,
 ) -> TriageRun:
-    """Load the inventory (with a CBOM side file, if any) and profile, triage, keep the parts."""
+    """Load the inventory (with a CBOM side file, if any), profile and hardware file, triage
+    with the uncertainty band, keep the parts."""
     from pqtriage.catalog import load_catalog
+    from pqtriage.sources.hardware_file import load_hardware
     from pqtriage.sources.profile_file import load_profile
 
     inventory = load_any(inventory_path, cbom_defaults)
     profile = load_profile(profile_name)
+    hardware = load_hardware(hardware_path)
     catalog = load_catalog()
-    arrival = arrival_model_for(profile, as_of)
-    return TriageRun(triage(inventory, catalog, profile, arrival, as_of), catalog, arrival)
+    arrival, band = arrival_and_band(profile, as_of, hardware)
+    return TriageRun(triage(inventory, catalog, profile, arrival, as_of, band), catalog, arrival)
 
 
-def load_review(path: str, profile: str | None, as_of: Any, cbom_defaults: str | None) -> Any:
+def arrival_and_band(profile: ThreatProfile, as_of: dt.date, hardware: Any) -> tuple[ArrivalModel, Any]:
+    """The arrival model and the uncertainty band of one run (they share one sample design)."""
+    from pqtriage.model.band import make_design
+
+    settings = hardware.band_settings(profile.qubit_doubling_years)
+    design = make_design(settings, profile.central_position, profile.has_band)
+    arrival = arrival_model_for(profile, as_of, hardware, design)
+    _, band = band_for(profile, arrival, hardware)
+    return arrival, band
+
+
+def load_review(path: str, profile: str | None, as_of: Any, cbom_defaults: str | None,
+                hardware_path: str | None = None) -> Any:
     """A Review from a JSON result file, or from an inventory (YAML or CycloneDX) triaged now."""
     from pqtriage.errors import InventoryError, Place
     from pqtriage.model.diff import review_of_json, review_of_result
@@ -136,9 +183,11 @@ def load_review(path: str, profile: str | None, as_of: Any, cbom_defaults: str |
                 raise InventoryError(str(exc), place=Place(path),
                                      hint="give a file written by 'pqtriage triage --format json'") from exc
     from pqtriage.catalog import load_catalog
+    from pqtriage.sources.hardware_file import load_hardware
     from pqtriage.sources.profile_file import load_profile
 
     inventory = load_any(path, cbom_defaults)
     threat = load_profile(profile)
-    result = triage(inventory, load_catalog(), threat, arrival_model_for(threat, as_of), as_of)
+    arrival, band = arrival_and_band(threat, as_of, load_hardware(hardware_path))
+    result = triage(inventory, load_catalog(), threat, arrival, as_of, band)
     return review_of_result(result, path)

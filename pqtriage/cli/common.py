@@ -14,7 +14,10 @@ import typer
 
 from pqtriage.errors import EXIT_FINDINGS, EXIT_OK, UsageError
 
-PROFILE_HELP = "Threat profile: a shipped name (survey-2025-upper, survey-2025-lower) or a YAML file."
+PROFILE_HELP = ("Threat profile: a shipped name (survey-2025-upper, survey-2025-lower, survey-2024-upper, "
+                "survey-2024-lower) or a YAML file.")
+HARDWARE_HELP = ("Hardware and progress file (YAML): error rate, cycle and reaction times, doubling time of usable "
+                 "qubits, runtime limit, band sampling. Keys it leaves out keep the shipped values.")
 AS_OF_HELP = "Date treated as today (YYYY-MM-DD), for reproducible reports."
 CBOM_DEFAULTS_HELP = "For a CycloneDX input: YAML side file with shelf-life, migration time and other values a CBOM cannot carry."
 POLICY_HELP = ("Policy timeline to check (repeatable): nist-ir-8547, cnsa2, uk-ncsc, eu-roadmap, au-ism, "

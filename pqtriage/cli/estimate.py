@@ -7,7 +7,7 @@ from typing import TYPE_CHECKING, Optional
 
 import typer
 
-from pqtriage.cli.common import EstimateFormat, console
+from pqtriage.cli.common import HARDWARE_HELP, EstimateFormat, console
 from pqtriage.errors import EXIT_OK, UsageError
 
 if TYPE_CHECKING:  # annotations only: --help must not load the estimator
@@ -25,10 +25,10 @@ def estimate_command(
     algorithm: str | None,
     all_: bool,
     method: str | None,
-    error_rate: float,
-    cycle_us: float,
-    reaction_us: float,
-    maxdepth: float,
+    error_rate: float | None,
+    cycle_us: float | None,
+    reaction_us: float | None,
+    maxdepth: float | None,
     output_format: str,
     *,
     resolve: Resolver,
@@ -37,6 +37,7 @@ def estimate_command(
     profile: ArrivalDistribution | None = None,
     as_of_year: float | None = None,
     as_of_label: str | None = None,
+    design: object = None,
 ) -> tuple[RenderableType | str, int]:
     """Estimate one algorithm (working view) or all (side-by-side table), or JSON of either.
 
@@ -56,6 +57,7 @@ def estimate_command(
     run = run_estimates(
         algorithm, all_, method, error_rate, cycle_us, reaction_us, maxdepth,
         resolve=resolve, specs=specs, base=base, profile=profile, as_of_year=as_of_year,
+        design=design,  # type: ignore[arg-type]
     )  # fmt: skip
     if run.side_by_side:
         if output_format == "json":
@@ -79,22 +81,24 @@ def estimate(
     algorithm: Optional[str] = typer.Argument(None, help="Any catalog spelling: RSA-3072, P-384, X25519, AES-128, SHA-256 ..."),
     all_: bool = typer.Option(False, "--all", help="Side-by-side table of what falls when."),
     method: Optional[str] = typer.Option(None, "--method", help="Construction by arXiv id (1905.09749, 2505.15917, 1611.07995, 1706.06752, 2306.08585)."),
-    error_rate: float = typer.Option(1e-3, "--error-rate", help="Physical error rate per operation."),
-    cycle_us: float = typer.Option(1.0, "--cycle-us", help="Surface-code cycle time in microseconds."),
-    reaction_us: float = typer.Option(10.0, "--reaction-us", help="Classical reaction time in microseconds."),
-    maxdepth: float = typer.Option(64, "--maxdepth", help="log2 of MAXDEPTH, the serial depth limit for Grover."),
+    error_rate: Optional[float] = typer.Option(None, "--error-rate", help="Physical error rate per operation (default: the hardware file's, 1e-3)."),
+    cycle_us: Optional[float] = typer.Option(None, "--cycle-us", help="Surface-code cycle time in microseconds (default: the hardware file's, 1)."),
+    reaction_us: Optional[float] = typer.Option(None, "--reaction-us", help="Classical reaction time in microseconds (default: the hardware file's, 10)."),
+    maxdepth: Optional[float] = typer.Option(None, "--maxdepth", help="log2 of MAXDEPTH, the serial depth limit for Grover (default 64)."),
     output_format: EstimateFormat = typer.Option(EstimateFormat.text, "--format", "-f", help="text or json."),
     output: Optional[str] = typer.Option(None, "--output", "-o", help="Write to this file."),
     profile: Optional[str] = typer.Option(None, "--profile", help="Threat profile for the arrival years."),
     as_of: Optional[str] = typer.Option(None, "--as-of", help="Assessment date YYYY-MM-DD for the years (default today)."),
+    hardware: Optional[str] = typer.Option(None, "--hardware", help=HARDWARE_HELP),
 ) -> None:
     """Estimate the quantum resources that break an algorithm, and when it falls."""
     import datetime as dt
 
     from pqtriage.catalog import load_catalog
+    from pqtriage.model.band import make_design
     from pqtriage.model.profile import decimal_year
+    from pqtriage.sources.hardware_file import load_hardware
     from pqtriage.sources.profile_file import load_profile
-    from pqtriage.threat.parameters import ThreatParameters
 
     if not all_ and not algorithm:
         raise UsageError("name an algorithm or pass --all", hint="for example: pqtriage estimate RSA-2048")
@@ -103,16 +107,16 @@ def estimate(
     except ValueError as exc:
         raise UsageError(f"--as-of {as_of!r} is not a date", hint="write YYYY-MM-DD, for example 2026-05-01") from exc
     threat_profile = load_profile(profile)
-    base = ThreatParameters()
-    if threat_profile.qubit_doubling_years:
-        import dataclasses
-
-        base = dataclasses.replace(base, doubling_years=threat_profile.qubit_doubling_years)
+    machine = load_hardware(hardware)
+    base = machine.parameters(doubling_years=threat_profile.qubit_doubling_years)
+    design = make_design(machine.band_settings(threat_profile.qubit_doubling_years),
+                         threat_profile.central_position, threat_profile.has_band)
     catalog = load_catalog()
     view, code = estimate_command(
         algorithm, all_, method, error_rate, cycle_us, reaction_us, maxdepth, output_format.value,
         resolve=lambda name: catalog.resolve(name), specs=catalog.specs, base=base,
         profile=threat_profile, as_of_year=decimal_year(day), as_of_label=day.isoformat(),
+        design=design,
     )
     if isinstance(view, str):
         if output:

@@ -13,6 +13,7 @@ import typer
 
 from pqtriage.cli.common import (
     CAPACITY_HELP,
+    HARDWARE_HELP,
     POLICY_HELP,
     PlanFormat,
     PlanPeriod,
@@ -104,6 +105,7 @@ def plan(
     as_of: Optional[str] = typer.Option(None, "--as-of", help="Date treated as today (YYYY-MM-DD)."),
     sensitivity: bool = typer.Option(False, "--sensitivity", help="Also show which systems change verdict if the CRQC moves -5..+5 years."),
     cbom_defaults: Optional[str] = typer.Option(None, "--cbom-defaults", help="For a CycloneDX input: YAML side file with values a CBOM cannot carry."),
+    hardware: Optional[str] = typer.Option(None, "--hardware", help=HARDWARE_HELP),
 ) -> None:
     """Plan the migration: deadlines per system, schedule under capacity, critical path."""
     from pathlib import Path
@@ -111,7 +113,7 @@ def plan(
     from pqtriage.cli.output import write_atomic
     from pqtriage.pipeline import parse_as_of, prepare
 
-    run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults)
+    run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults, hardware)
     the_plan = run.plan(tuple(policy or ()), capacity)
     if output_format == PlanFormat.table:
         from pqtriage.formats.table.plan import plan_view
@@ -119,9 +121,12 @@ def plan(
         out = console()
         out.print(plan_view(the_plan, period.value))
         if sensitivity:
-            from pqtriage.formats.table.sensitivity import sensitivity_table
+            from pqtriage.formats.table.sensitivity import band_table, sensitivity_table
 
-            out.print(sensitivity_table(run.sensitivity()))
+            moved = run.sensitivity()
+            out.print(sensitivity_table(moved))
+            if moved.band_checked:
+                out.print(band_table(moved))
         return
     if output_format == PlanFormat.json:
         from pqtriage.formats.json.plan import plan_json

@@ -9,6 +9,7 @@ import typer
 from pqtriage.cli.common import (
     AS_OF_HELP,
     CBOM_DEFAULTS_HELP,
+    HARDWARE_HELP,
     PROFILE_HELP,
     VerdictChoice,
     chart_path_for,
@@ -28,6 +29,7 @@ def report_command(
     capacity: Optional[str] = typer.Option(None, "--capacity", help="Plan capacity: migrations in parallel (3), person-weeks per quarter (40pw), or both."),
     fail_on: Optional[VerdictChoice] = typer.Option(None, "--fail-on", help="Exit 1 if any system is at or above this verdict."),
     cbom_defaults: Optional[str] = typer.Option(None, "--cbom-defaults", help=CBOM_DEFAULTS_HELP),
+    hardware: Optional[str] = typer.Option(None, "--hardware", help=HARDWARE_HELP),
 ) -> None:
     """Write the Markdown report for the compliance file (ranking, plan, sensitivity)."""
     from pathlib import Path
@@ -39,7 +41,7 @@ def report_command(
     from pqtriage.formats.table.summary import summary_block
     from pqtriage.pipeline import parse_as_of, prepare
 
-    run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults)
+    run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults, hardware)
     result = run.result
     the_plan = run.plan(tuple(policy or ()), capacity)
     chart = chart_path_for(output) if to_file(output) and output else None

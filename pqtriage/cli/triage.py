@@ -9,6 +9,7 @@ import typer
 from pqtriage.cli.common import (
     AS_OF_HELP,
     CBOM_DEFAULTS_HELP,
+    HARDWARE_HELP,
     PROFILE_HELP,
     ResultFormatChoice,
     VerdictChoice,
@@ -30,11 +31,12 @@ def triage_command(
     top: Optional[int] = typer.Option(None, "--top", min=1, help="Show only the N most urgent systems (table)."),
     fail_on: Optional[VerdictChoice] = typer.Option(None, "--fail-on", help="Exit 1 if any system is at or above this verdict."),
     cbom_defaults: Optional[str] = typer.Option(None, "--cbom-defaults", help=CBOM_DEFAULTS_HELP),
+    hardware: Optional[str] = typer.Option(None, "--hardware", help=HARDWARE_HELP),
 ) -> None:
     """Rank the inventory's systems by post-quantum exposure."""
     from pqtriage.pipeline import parse_as_of, run_triage
 
-    result = run_triage(inventory, profile, parse_as_of(as_of), cbom_defaults)
+    result = run_triage(inventory, profile, parse_as_of(as_of), cbom_defaults, hardware)
     formatter = result_formats()[output_format.value]
     if formatter is None:
         from pqtriage.formats.table.triage import terminal_view

@@ -30,8 +30,12 @@ SOURCES: tuple[str, ...] = (
     "Post-quantum standards: FIPS 203 (ML-KEM), FIPS 204 (ML-DSA), FIPS 205 (SLH-DSA), 2024; "
     "NIST SP 800-208 (LMS, XMSS), 2020.",
     "Security categories and deprecation: NIST IR 8547 ipd (2024), Tables 1, 2, 4 and 7.",
-    "Quantum resource estimates: arXiv:1905.09749; arXiv:2505.15917; arXiv:1611.07995; "
-    "arXiv:1706.06752; arXiv:2306.08585.",
+    "Quantum resource estimates: arXiv:1905.09749 (its own table); arXiv:2505.15917 (the "
+    "authors' logical-cost tables); arXiv:1611.07995; arXiv:1706.06752; arXiv:2306.08585 (per key, "
+    "amortised over several keys); arXiv:2603.28846 (claimed, circuit withheld); arXiv:2606.02235 "
+    "(published circuit); IACR ePrint 2026/280.",
+    "Arrival of a CRQC: Quantum Threat Timeline Report 2025 (Global Risk Institute, March 2026) "
+    "and Quantum Threat Timeline Report 2024 (Global Risk Institute, December 2024).",
     "Grover costs: NIST PQC Call for Proposals (2016) section 4.A.5; NIST Call for Additional "
     "Digital Signature Schemes (2022) section 4.B.3.",
 )
@@ -64,13 +68,18 @@ def assumptions(result: TriageResult) -> list[str]:
     else:
         items.append(
             f"Risk tolerance {profile.risk_tolerance:.0%}: z is the year by which the CRQC has "
-            "arrived with that probability, conditioned on none having appeared by today."
+            "arrived with that probability. No CRQC by today: the probability the survey placed "
+            "before today is held at today (it may arrive at any moment), never spread over later "
+            "years, and every algorithm reads the same distribution shifted by its own requirement."
         )
         items.append(
             "Between the survey's horizons the cumulative probability is interpolated linearly; "
-            "the probability mass beyond the last horizon is treated as outside the planning horizon."
+            "beyond the last horizon it keeps growing at the rate of the last interval until it "
+            "reaches 1 (a cautious tail), so no later date makes a quantum-vulnerable use safe."
         )
     items.append(f"Per-algorithm arrival: {result.arrival_model}.")
+    if result.band is not None:
+        items.append(f"Uncertainty: {result.band.describe()}")
     items.append(
         "Mosca's x by purpose: data shelf-life for key establishment and encryption "
         "(harvest now, decrypt later); trust_years for signatures and integrity (0 when not given); "

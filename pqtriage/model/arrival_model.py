@@ -10,6 +10,7 @@ how many years later (positive) or earlier (negative) that algorithm falls;
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from typing import Protocol
 
 from pqtriage.catalog.spec import AlgorithmSpec
@@ -30,6 +31,18 @@ class ArrivalModel(Protocol):
         ...
 
 
+class SampledArrival(Protocol):
+    """An arrival model that also gives a shift per uncertainty sample (pqtriage.model.band)."""
+
+    def shift_samples(self, spec: AlgorithmSpec, design: object, choices: Sequence[str]) -> list[float]:
+        """Each sample's shift, given the sample design and each sample's construction."""
+        ...
+
+    def band_methods(self, spec: AlgorithmSpec) -> tuple[str, list[str]]:
+        """(central construction, other constructions the band samples)."""
+        ...
+
+
 class SharedArrival:
     """Every Shor-attackable algorithm falls with the reference task.
 
@@ -39,6 +52,14 @@ class SharedArrival:
     """
 
     name = "shared arrival (every Shor-attackable algorithm falls with the reference task)"
+
+    def shift_samples(self, spec: AlgorithmSpec, design: object, choices: Sequence[str]) -> list[float]:
+        """The same shift for every sample: this what-if has no growth model to vary."""
+        return [self.shift_years(spec)] * len(choices)
+
+    def band_methods(self, spec: AlgorithmSpec) -> tuple[str, list[str]]:
+        """No constructions: the shared arrival costs nothing."""
+        return "", []
 
     def shift_years(self, spec: AlgorithmSpec) -> float:
         if spec.quantum_attack == "shor":

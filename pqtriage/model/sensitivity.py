@@ -11,7 +11,7 @@ from pqtriage.model.inventory import Inventory
 from pqtriage.model.mosca import use_verdict
 from pqtriage.model.profile import ThreatProfile
 from pqtriage.model.triage import Resolver
-from pqtriage.model.verdict import SEVERITY, TriageResult, Verdict
+from pqtriage.model.verdict import SEVERITY, TriageResult, UseAssessment, Verdict
 
 DEFAULT_SHIFTS: tuple[int, ...] = (-5, -3, -1, 1, 3, 5)
 """Years earlier (negative) or later (positive) the CRQC is assumed to arrive."""
@@ -42,8 +42,22 @@ class SensitivityRow:
 
 
 @dataclass(frozen=True)
+class BandFlip:
+    """A system whose verdict differs at one end of the uncertainty band."""
+
+    system_id: str
+    """The system."""
+    central: Verdict
+    """Its verdict at the central values (the one reported and ranked)."""
+    optimistic: Verdict
+    """Its verdict with every use at the low end of its P(exposed) band."""
+    pessimistic: Verdict
+    """Its verdict with every use at the high end of its P(exposed) band."""
+
+
+@dataclass(frozen=True)
 class Sensitivity:
-    """The systems that change verdict within the shifts tried."""
+    """The systems that change verdict within the shifts tried, and inside the band."""
 
     shifts: tuple[int, ...]
     """Shifts tried, in years."""
@@ -51,6 +65,45 @@ class Sensitivity:
     """Only systems whose verdict changes under some shift, in baseline rank order."""
     unchanged: int
     """Number of systems whose verdict holds under every shift."""
+    band_flips: tuple[BandFlip, ...] = ()
+    """Systems whose verdict flips inside the 10-90 % band, in baseline rank order."""
+    band_checked: bool = False
+    """Whether the result carried bands (False: no band flip could be looked for)."""
+
+
+def _verdict_at(use: UseAssessment, probability: float, tolerance: float) -> Verdict:
+    """A use's verdict if its P(exposed) were ``probability`` (same rule as triage: P > tolerance)."""
+    if use.band is None:
+        return use.verdict
+    if probability > tolerance:
+        return Verdict.EXPOSED
+    if use.verdict == Verdict.QUANTUM_RESISTANT and probability == 0.0:
+        return Verdict.QUANTUM_RESISTANT
+    return Verdict.WITHIN_MARGIN
+
+
+def band_flips(result: TriageResult) -> tuple[BandFlip, ...]:
+    """Systems whose verdict at either end of their uses' P bands differs from the central one.
+
+    A system's verdict is its weakest use's, at each end alike: all uses at their optimistic
+    end, or all at their pessimistic end (the band's samples move every algorithm together).
+    """
+    tolerance = result.profile.risk_tolerance
+    flips = []
+    for item in result.items:
+        if not item.uses or not any(u.band is not None for u in item.uses):
+            continue
+        ends = []
+        for pick in (0, 1):
+            verdicts = [
+                _verdict_at(u, (u.band.exposure_probability.low, u.band.exposure_probability.high)[pick]
+                            if u.band is not None else 0.0, tolerance)
+                for u in item.uses
+            ]
+            ends.append(max(verdicts, key=lambda v: SEVERITY[v]))
+        if ends[0] != item.verdict or ends[1] != item.verdict:
+            flips.append(BandFlip(item.system.id, item.verdict, ends[0], ends[1]))
+    return tuple(flips)
 
 
 def sensitivity(
@@ -89,4 +142,6 @@ def sensitivity(
             rows.append(SensitivityRow(item.system.id, item.verdict, moved_verdicts))
         else:
             unchanged += 1
-    return Sensitivity(shifts=shifts, rows=tuple(rows), unchanged=unchanged)
+    checked = baseline.band is not None
+    return Sensitivity(shifts=shifts, rows=tuple(rows), unchanged=unchanged,
+                       band_flips=band_flips(baseline) if checked else (), band_checked=checked)

@@ -8,13 +8,14 @@ from __future__ import annotations
 
 import datetime as dt
 import math
+from dataclasses import replace
 from typing import Protocol
 
 from pqtriage.catalog.spec import AlgorithmSpec, Resolution
 from pqtriage.model.arrival_model import ArrivalModel
 from pqtriage.model.inventory import CRITICALITY_ORDER, EXPOSURE_ORDER, CryptoUse, Inventory, System
-from pqtriage.model.mosca import evaluate_use
-from pqtriage.model.profile import ThreatProfile
+from pqtriage.model.mosca import evaluate_use, evaluation_parts, x_years
+from pqtriage.model.profile import ThreatProfile, decimal_year
 from pqtriage.model.verdict import (
     SEVERITY,
     ArrivalUsed,
@@ -71,6 +72,47 @@ class _RememberedArrival:
             known = (spec, self.model.shift_years(spec))  # keeps spec alive, so its id stays unique
             self.shifts[id(spec)] = known
         return known[1]
+
+
+class BandSource(Protocol):
+    """What triage needs of the uncertainty band (pqtriage.model.band_evaluation.BandEvaluator)."""
+
+    summary: object
+    """What the band sampled (a pqtriage.model.band.BandSummary)."""
+
+    def use_band(self, spec: object, x: float, y: float, as_of: float) -> object:
+        """The band of one use (a pqtriage.model.band.UseBand)."""
+        ...
+
+
+_BANDED = (Verdict.EXPOSED, Verdict.WITHIN_MARGIN, Verdict.QUANTUM_RESISTANT)
+
+
+def _with_band(item: UseAssessment, system: System, band: BandSource, now: float,
+               memo: dict[tuple[object, ...], object]) -> UseAssessment:
+    """The use with the band of the part that decides it (quantum-attackable uses only)."""
+    spec = item.deciding or item.spec
+    if item.spec is None or spec is None or item.verdict not in _BANDED:
+        return item
+    if spec.quantum_attack not in ("shor", "grover") or spec.grover_target == "collision":
+        return item
+    x = item.x_years
+    if item.deciding is not None:
+        base, _ = x_years(item.use, system)
+        x = next((part_x for part, _, part_x in evaluation_parts(item.use, system, item.spec, base)
+                  if part is item.deciding), x)
+    key = (id(spec), x, item.y_years, item.exposure_probability, item.crqc_year)
+    found = memo.get(key)
+    if found is None:
+        found = band.use_band(spec, x, item.y_years, now)
+        if item.exposure_probability is not None and item.crqc_year is not None:
+            found = replace(  # type: ignore[type-var]
+                found,
+                exposure_probability=found.exposure_probability.enclosing(item.exposure_probability),  # type: ignore[attr-defined]
+                crqc_year=found.crqc_year.enclosing(item.crqc_year),  # type: ignore[attr-defined]
+            )
+        memo[key] = found
+    return replace(item, band=found)  # type: ignore[arg-type]
 
 
 def use_sort_key(item: UseAssessment) -> tuple:
@@ -156,6 +198,7 @@ def triage(
     profile: ThreatProfile,
     arrival: ArrivalModel,
     as_of: dt.date,
+    band: BandSource | None = None,
 ) -> TriageResult:
     """Evaluate and rank every system of the inventory.
 
@@ -165,17 +208,22 @@ def triage(
         profile: CRQC arrival distribution and risk tolerance.
         arrival: per-algorithm shift of the arrival.
         as_of: the date treated as today.
+        band: the uncertainty band; None computes none (the central values are the same).
     """
     cache: dict[tuple, Resolution] = {}
     assessed: list[SystemAssessment] = []
     arrivals: dict[str, ArrivalUsed] = {}
     explain = getattr(arrival, "explain", None)
     remembered = _RememberedArrival(arrival)
+    now = decimal_year(as_of)
+    memo: dict[tuple[object, ...], object] = {}  # specs stay alive in the catalog cache
     for system in inventory.systems:
         uses = tuple(
             evaluate_use(use, system, _resolve(catalog, use, cache), profile, remembered, as_of)
             for use in system.uses
         )
+        if band is not None:
+            uses = tuple(_with_band(u, system, band, now, memo) for u in uses)
         for use in uses:
             spec = use.deciding or use.spec
             if spec is not None and use.crqc_year is not None and spec.name not in arrivals:
@@ -207,4 +255,5 @@ def triage(
         inventory=inventory, items=items, summary=summarize(items, as_of), as_of=as_of,
         profile=profile, arrival_model=arrival.name,
         arrivals=tuple(sorted(arrivals.values(), key=lambda a: (a.crqc_year, a.algorithm))),
+        band=getattr(band, "summary", None),  # type: ignore[arg-type]
     )

@@ -5,10 +5,14 @@ from __future__ import annotations
 import datetime as dt
 from dataclasses import dataclass
 from enum import Enum
+from typing import TYPE_CHECKING
 
 from pqtriage.catalog.spec import AlgorithmSpec
 from pqtriage.model.inventory import CryptoUse, Inventory, System
 from pqtriage.model.profile import ThreatProfile
+
+if TYPE_CHECKING:
+    from pqtriage.model.band import BandSummary, UseBand
 
 
 class Verdict(str, Enum):
@@ -74,6 +78,9 @@ class UseAssessment:
     """Close catalog names, for an unknown algorithm."""
     assumptions: tuple[str, ...] = ()
     """Assumptions this evaluation made (default trust years, assumed shelf-life ...)."""
+    band: UseBand | None = None
+    """10-90 % band of P(exposed), z and start-by over the uncertainty samples, for the part
+    that decides the use; None where no quantum arrival applies (added by the threat model)."""
 
 
 @dataclass(frozen=True)
@@ -136,6 +143,8 @@ class TriageResult:
     """Description of how per-algorithm arrivals were set."""
     arrivals: tuple[ArrivalUsed, ...] = ()
     """The arrival of each distinct algorithm used, earliest first."""
+    band: BandSummary | None = None
+    """What the uncertainty band sampled; None when no band was computed."""
 
 
 @dataclass(frozen=True)

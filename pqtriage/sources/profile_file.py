@@ -19,8 +19,12 @@ DEFAULT_RISK_TOLERANCE = 0.10
 
 _FIELDS = {
     "name", "description", "source", "caveat", "reference_task", "reference_date", "arrival",
-    "risk_tolerance", "per_algorithm_arrival", "crqc_year", "qubit_doubling_years",
+    "risk_tolerance", "per_algorithm_arrival", "crqc_year", "qubit_doubling_years", "central",
+    "tail", "tail_end_years",
 }
+_TAILS = ("last-interval-rate",)
+"""Tail rules beyond the survey's last horizon (docs/threat-model.md section 4)."""
+_FLAGS = ("V", "V2", "M")
 
 
 def shipped_profiles() -> list[str]:
@@ -127,19 +131,70 @@ def parse_profile(data: bytes, path: str) -> ThreatProfile:
         raise _fail(path, date_node, "'reference_date' must be a date YYYY-MM-DD") from exc
     arrival = raw["arrival"]
     if not isinstance(arrival.value, list) or not arrival.value:
-        raise _fail(path, arrival, "'arrival' must be a non-empty list of {within_years, probability}")
-    points: list[tuple[float, float]] = []
+        raise _fail(path, arrival, "'arrival' must be a non-empty list of {within_years, probability}",
+                    "or {within_years, optimistic, pessimistic} for a survey that gives a range")
     start = decimal_year(reference)
-    last_years, last_p = 0.0, 0.0
+    lows: list[tuple[float, float]] = []
+    highs: list[tuple[float, float]] = []
+    flags: list[str] = []
+    banded: bool | None = None
+    last_years, last_low, last_high = 0.0, 0.0, 0.0
     for item in arrival.value:
-        if not isinstance(item.value, dict) or set(item.value) != {"within_years", "probability"}:
-            raise _fail(path, item, "each arrival entry needs exactly 'within_years' and 'probability'")
-        years = _number(path, item.value["within_years"], "within_years", 0.01, 200)
-        prob = _number(path, item.value["probability"], "probability", 0.0, 1.0)
-        if years <= last_years or prob < last_p:
+        entry = item.value if isinstance(item.value, dict) else None
+        keys = set(entry or ())
+        single = {"within_years", "probability"}
+        double = {"within_years", "optimistic", "pessimistic"}
+        if entry is None or keys - {"flag"} not in (single, double):
+            raise _fail(path, item, "each arrival entry needs 'within_years' and either 'probability' "
+                        "or both 'optimistic' and 'pessimistic' (and may have 'flag')")
+        has_band = "optimistic" in keys
+        if banded is not None and has_band != banded:
+            raise _fail(path, item, "every arrival entry must have the same form",
+                        "give 'probability' everywhere, or 'optimistic' and 'pessimistic' everywhere")
+        banded = has_band
+        years = _number(path, entry["within_years"], "within_years", 0.01, 200)
+        if has_band:
+            low = _number(path, entry["optimistic"], "optimistic", 0.0, 1.0)
+            high = _number(path, entry["pessimistic"], "pessimistic", 0.0, 1.0)
+            if low > high:
+                raise _fail(path, item, f"'optimistic' {low:g} is above 'pessimistic' {high:g}",
+                            "the optimistic end gives the lower probability")
+        else:
+            low = high = _number(path, entry["probability"], "probability", 0.0, 1.0)
+        if years <= last_years or low < last_low or high < last_high:
             raise _fail(path, item, "arrival entries must increase in years and never decrease in probability")
-        points.append((start + years, prob))
-        last_years, last_p = years, prob
+        if "flag" in entry:
+            flag = entry["flag"].value
+            if flag not in _FLAGS:
+                raise _fail(path, entry["flag"], f"'flag' must be one of {', '.join(_FLAGS)}")
+            flags.append(str(flag))
+        lows.append((start + years, low))
+        highs.append((start + years, high))
+        last_years, last_low, last_high = years, low, high
+    position = 1.0
+    if "central" in raw:
+        node = raw["central"]
+        if node.value == "pessimistic":
+            position = 1.0
+        elif node.value == "optimistic":
+            position = 0.0
+        elif isinstance(node.value, (int, float)) and not isinstance(node.value, bool) and 0 <= node.value <= 1:
+            position = float(node.value)
+        else:
+            raise _fail(path, node, "'central' must be pessimistic, optimistic or a number from 0 to 1",
+                        "0 is the optimistic end, 1 the pessimistic end")
+        if not banded:
+            raise _fail(path, node, "'central' needs arrival entries with 'optimistic' and 'pessimistic'")
+    points = [(y, lo + position * (hi - lo)) for (y, lo), (_, hi) in zip(lows, highs, strict=True)]
+    if "tail" in raw and raw["tail"].value not in _TAILS:
+        raise _fail(path, raw["tail"], f"unknown tail rule {raw['tail'].value!r}",
+                    f"use {', '.join(_TAILS)} or give tail_end_years")
+    tail_years = None
+    if "tail_end_years" in raw:
+        tail_years = _number(path, raw["tail_end_years"], "tail_end_years", 0.01, 100)
+        if tail_years <= last_years:
+            raise _fail(path, raw["tail_end_years"],
+                        f"'tail_end_years' must be after the last horizon ({last_years:g} years)")
     return ThreatProfile(
         name=_text(path, raw, "name", Path(path).stem),
         description=_text(path, raw, "description", "user-supplied arrival distribution"),
@@ -152,4 +207,9 @@ def parse_profile(data: bytes, path: str) -> ThreatProfile:
         per_algorithm_arrival=per_algorithm,
         caveat=_text(path, raw, "caveat", ""),
         qubit_doubling_years=doubling,
+        optimistic=tuple(lows) if banded else (),
+        pessimistic=tuple(highs) if banded else (),
+        central_position=position,
+        row_flags=tuple(flags),
+        tail_end_years=tail_years,
     )

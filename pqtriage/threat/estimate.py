@@ -13,9 +13,9 @@ from pqtriage.catalog.spec import AlgorithmSpec
 from pqtriage.threat.grover import break_even_oracle_operations, grover_resources
 from pqtriage.threat.methods import MethodData, load_method_data
 from pqtriage.threat.parameters import ThreatParameters
+from pqtriage.threat.requirement import family_of, has_own_layer, requirement, variant_of
 from pqtriage.threat.resource_arrival import ArrivalRow, ResourceArrivalModel
-from pqtriage.threat.shor import logical_resources, select_method
-from pqtriage.threat.surface_code import physical_resources
+from pqtriage.threat.shor import select_method
 
 
 @dataclass(frozen=True)
@@ -78,6 +78,12 @@ class Estimate:
     """Every step, with its source."""
     notes: str = ""
     """What the method assumes."""
+    expected_runtime_hours: float | None = None
+    """Expected hours to a result, retries included (Shor)."""
+    method_check: str | None = None
+    """How the construction was checked: published circuit, claimed with withheld circuit ..."""
+    classically_broken: str = ""
+    """Why the algorithm is broken (or not acceptable) against classical attacks today; '' if not."""
 
 
 def estimate(
@@ -135,6 +141,11 @@ def estimate(
             "break_even_oracle_operations",
         )
     }
+    if spec.classical_status in ("broken", "weak"):
+        base["classically_broken"] = (
+            f"{spec.name} is {spec.classical_status} against classical attacks today"
+            + (f": {spec.notes}" if spec.notes else "") + "; replace it now, whatever the quantum estimate"
+        )
     if spec.quantum_attack == "shor" and spec.shor_problem and spec.problem_bits:
         chosen = method
         if method is not None and not strict:
@@ -142,11 +153,18 @@ def estimate(
             if known is None or spec.shor_problem not in known.families:
                 chosen = None
         construction = select_method(spec.shor_problem, chosen, data)
-        logical = logical_resources(
-            construction, spec.shor_problem, spec.problem_bits, spec.classical_bits
-        )
-        physical = physical_resources(logical, params, data.surface_code, construction.layout)
-        default = spec.shor_problem in construction.default_for
+        variant = variant_of(spec) or spec.shor_problem
+        need = requirement(construction, variant, spec.problem_bits, spec.classical_bits, params,
+                           data, has_own_layer(construction, variant))
+        physical = need.physical
+        default = family_of(variant) in construction.default_for
+        amortised = ""
+        if construction.per_key_amortised_toffoli:
+            amortised = (
+                f"{construction.per_key_amortised_toffoli:.3g} Toffoli per key is amortised over "
+                f"several keys; one key alone up to {construction.amortisation_factor:g}x: one run "
+                "is costed at that (never the amortised figure)"
+            )
         return _build(
             empty,
             base,
@@ -154,17 +172,21 @@ def estimate(
             method_title=construction.title,
             method_is_default=default,
             problem=spec.shor_problem,
-            logical_qubits=logical.logical_qubits,
-            toffoli_count=logical.toffoli_count,
-            measurement_depth=logical.measurement_depth,
-            code_distance=physical.code_distance,
-            physical_qubits=physical.physical_qubits,
-            factories=physical.factories,
-            runtime_hours=physical.runtime_hours,
-            runtime_limited_by=physical.limited_by,
-            failure_probability=physical.failure_probability,
-            working=logical.working + physical.working,
+            logical_qubits=need.logical.logical_qubits,
+            toffoli_count=need.logical.toffoli_count,
+            measurement_depth=need.logical.measurement_depth,
+            code_distance=physical.code_distance if physical else None,
+            physical_qubits=need.physical_qubits,
+            factories=physical.factories if physical else None,
+            runtime_hours=need.hours_per_run,
+            runtime_limited_by=physical.limited_by if physical else None,
+            failure_probability=physical.failure_probability if physical else None,
+            working=need.working + ((amortised,) if amortised else ())
+            + (need.runtime_note(params.runtime_limit_hours),),
             notes=construction.notes,
+            expected_runtime_hours=need.expected_hours,
+            method_check=construction.check_label
+            + (f" ({construction.check_note})" if construction.check_note else ""),
         )
     if spec.quantum_attack == "grover" and spec.grover_target and spec.problem_bits:
         g = grover_resources(spec.grover_target, spec.problem_bits, params, data)

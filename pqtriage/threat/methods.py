@@ -7,7 +7,7 @@ Rows become frozen dataclasses; a malformed row is a packaging bug and raises
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from functools import lru_cache
 from importlib import resources
 from typing import Any
@@ -15,6 +15,7 @@ from typing import Any
 import yaml
 
 from pqtriage.errors import CatalogError, Place
+from pqtriage.threat.tables import VARIANTS, LogicalRow, PhysicalRow
 
 try:  # The C loader when present; never an unsafe loader.
     from yaml import CSafeLoader as _Loader
@@ -23,6 +24,12 @@ except ImportError:  # pragma: no cover - depends on the PyYAML build
 
 DATA_FILE = "methods.yaml"
 FAMILIES: tuple[str, ...] = ("factoring", "finite-field-dlog", "elliptic-curve-dlog")
+CHECKS: dict[str, str] = {
+    "published-circuit": "published circuit",
+    "withheld-circuit": "claimed, circuit withheld",
+    "not-checked": "not checked here (secondary reports only)",
+}
+"""How a construction was checked by its authors, as the outputs say it."""
 
 
 @dataclass(frozen=True)
@@ -147,7 +154,30 @@ class ShorMethod:
     """Factoring construction whose RSA-2048 cost this method's arrival is compared with
     (itself for a factoring method)."""
     arrival_exclusion: str = ""
-    """Why the method is left out of the cautious minimum of arrival shifts ('' = included)."""
+    """Why the method is left out of arrival computations altogether ('' = included)."""
+    check: str = "published-circuit"
+    """How its authors' figures can be checked: a key of CHECKS."""
+    check_note: str = ""
+    """What was seen of the check (one line)."""
+    in_band: bool = False
+    """Whether the uncertainty band samples this construction for its families."""
+    logical_table: dict[str, tuple[LogicalRow, ...]] | None = None
+    """The paper's per-size logical costs per problem variant (arXiv:2505.15917)."""
+    logical_table_source: str = ""
+    """Where the logical table comes from (title, repository, commit)."""
+    physical_table: dict[str, tuple[PhysicalRow, ...]] | None = None
+    """The paper's per-size physical qubits and hours per problem variant (arXiv:1905.09749)."""
+    physical_table_source: str = ""
+    """Where the physical table comes from."""
+    per_key_amortised_toffoli: float | None = None
+    """A published per-key Toffoli count that holds only amortised over several keys."""
+    amortisation_factor: float | None = None
+    """How much more one key alone costs than the amortised per-key figure (at most)."""
+
+    @property
+    def check_label(self) -> str:
+        """How the construction was checked, in words."""
+        return CHECKS.get(self.check, self.check)
 
 
 @dataclass(frozen=True)
@@ -281,6 +311,69 @@ def _layout(raw: Any, where: str) -> PhysicalLayout | None:
     return PhysicalLayout(**values, parameters=tuple(parameters))
 
 
+def _logical_table(raw: Any, where: str) -> dict[str, tuple[LogicalRow, ...]] | None:
+    if raw is None:
+        return None
+    if not isinstance(raw, list) or not raw:
+        raise _fail(where, "'logical_table' must be a non-empty list of rows")
+    table: dict[str, list[LogicalRow]] = {}
+    for entry in raw:
+        try:
+            bits = int(entry["bits"])
+            commit, verified = str(entry["commit"]), str(entry["verified"])
+            strength = int(entry["strength"]) if entry.get("strength") is not None else None
+            for variant in VARIANTS:
+                if variant in entry:
+                    qubits, toffoli = (float(v) for v in entry[variant])
+                    if not (qubits > 0 and toffoli > 0):
+                        raise ValueError("costs must be positive")
+                    table.setdefault(variant, []).append(
+                        LogicalRow(bits, qubits, toffoli, strength, commit, verified)
+                    )
+        except (KeyError, TypeError, ValueError) as exc:
+            raise _fail(where, f"malformed logical_table row {entry!r} ({exc})") from exc
+        if not commit or verified not in ("V", "V2", "M"):
+            raise _fail(where, f"logical_table row {bits} needs a commit and a flag")
+    return _sorted_rows(table, where)
+
+
+def _physical_table(raw: Any, where: str) -> dict[str, tuple[PhysicalRow, ...]] | None:
+    if raw is None:
+        return None
+    if not isinstance(raw, dict) or not set(raw) <= set(VARIANTS):
+        raise _fail(where, f"'physical_table' maps problem variants ({', '.join(VARIANTS)}) to rows")
+    table: dict[str, list[PhysicalRow]] = {}
+    for variant, rows in raw.items():
+        for entry in rows:
+            try:
+                retry = entry.get("retry_risk")
+                row = PhysicalRow(
+                    bits=int(entry["bits"]),
+                    physical_qubits=float(entry["physical_qubits"]),
+                    hours_per_run=float(entry["hours_per_run"]),
+                    retry_risk=None if retry is None else float(retry),
+                    distances=str(entry.get("distances") or ""),
+                    commit=str(entry["commit"]),
+                    verified=str(entry["verified"]),
+                )
+            except (KeyError, TypeError, ValueError, AttributeError) as exc:
+                raise _fail(where, f"malformed physical_table row {entry!r} ({exc})") from exc
+            if row.physical_qubits <= 0 or row.hours_per_run <= 0 or not 0 <= (row.retry_risk or 0) < 1:
+                raise _fail(where, f"physical_table row {row.bits}: values out of range")
+            table.setdefault(variant, []).append(row)
+    return _sorted_rows(table, where)
+
+
+def _sorted_rows(table: dict[str, list[Any]], where: str) -> dict[str, tuple[Any, ...]]:
+    result = {}
+    for variant, rows in table.items():
+        ordered = sorted(rows, key=lambda r: r.bits)
+        if len({r.bits for r in ordered}) != len(ordered):
+            raise _fail(where, f"table for {variant} repeats a size")
+        result[variant] = tuple(ordered)
+    return result
+
+
 def _method(row: Any, index: int) -> ShorMethod:
     if not isinstance(row, dict):
         raise _fail(f"shor_methods[{index}]", "must be a mapping")
@@ -303,6 +396,14 @@ def _method(row: Any, index: int) -> ShorMethod:
         if "factoring" not in families:
             raise _fail(where, "needs 'reference_counterpart' (a factoring method to compare with)")
         counterpart = str(row["id"])
+    check = str(row.get("check") or "")
+    if check not in CHECKS:
+        raise _fail(where, f"'check' must be one of {', '.join(CHECKS)}")
+    amortised = row.get("per_key_amortised") or {}
+    if row.get("logical_table") and not row.get("logical_table_source"):
+        raise _fail(where, "a logical_table needs a logical_table_source")
+    if row.get("physical_table") and not row.get("physical_table_source"):
+        raise _fail(where, "a physical_table needs a physical_table_source")
     toffoli = _quantity(row, "toffoli_count", where)
     if toffoli.per_toffoli is not None:
         raise _fail(where, "toffoli_count cannot be per_toffoli")
@@ -325,6 +426,16 @@ def _method(row: Any, index: int) -> ShorMethod:
         layout=_layout(row.get("physical_layout"), where),
         reference_counterpart=counterpart,
         arrival_exclusion=" ".join(str(row.get("arrival_exclusion") or "").split()),
+        check=check,
+        check_note=" ".join(str(row.get("check_note") or "").split()),
+        in_band=bool(row.get("in_band", False)),
+        logical_table=_logical_table(row.get("logical_table"), where),
+        logical_table_source=" ".join(str(row.get("logical_table_source") or "").split()),
+        physical_table=_physical_table(row.get("physical_table"), where),
+        physical_table_source=" ".join(str(row.get("physical_table_source") or "").split()),
+        per_key_amortised_toffoli=float(amortised["toffoli"]) if "toffoli" in amortised else None,
+        amortisation_factor=float(amortised["amortisation_factor"])
+        if "amortisation_factor" in amortised else None,
     )
 
 
@@ -332,7 +443,23 @@ def parse_method_data(document: Any) -> MethodData:
     """Validate a parsed methods.yaml document and build :class:`MethodData`."""
     if not isinstance(document, dict):
         raise _fail("top level", "must be a mapping")
-    methods = tuple(_method(r, i) for i, r in enumerate(document.get("shor_methods") or []))
+    rows = document.get("shor_methods") or []
+    methods = tuple(_method(r, i) for i, r in enumerate(rows))
+    borrowed = []
+    for raw, m in zip(rows, methods, strict=True):
+        lender_id = raw.get("physical_layout_of")
+        if lender_id:
+            lender = next((x for x in methods if x.id == str(lender_id)), None)
+            if lender is None or lender.layout is None or m.layout is not None:
+                raise _fail(f"shor_methods ({m.id})",
+                            f"physical_layout_of {lender_id!r} names no method with a layout")
+            m = replace(m, layout=lender.layout)
+        borrowed.append(m)
+    methods = tuple(borrowed)
+    for family in FAMILIES:
+        defaults = [m.id for m in methods if family in m.default_for]
+        if len(defaults) != 1:
+            raise _fail("shor_methods", f"{family} needs exactly one default, not {defaults}")
     ids = [m.id for m in methods]
     if len(set(ids)) != len(ids):
         raise _fail("shor_methods", "duplicate method id")

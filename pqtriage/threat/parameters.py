@@ -41,14 +41,20 @@ class ThreatParameters:
     """Classical operations per second of a search accelerator (common practice, no source)."""
     window_days: float = 14.0
     """Time window of a search, in days (common practice, no source: two weeks)."""
-    doubling_years: float = 2.0
-    """Years for physical-qubit capacity to double (assumption, A; see docs/threat-model.md)."""
+    doubling_years: float = 1.0
+    """Years for usable physical qubits to double (hardware file; derived from the default
+    profile, A; docs/threat-model.md section 3)."""
     nist_figures_year: int = 2022
     """NIST gate figures: 2022 (call for additional signatures) or 2016 (PQC call)."""
-    planning_horizon_years: float = 100.0
-    """A shift beyond this many years is reported as beyond any planning horizon."""
+    planning_horizon_years: float = 50.0
+    """A shift beyond this many years is reported as beyond any planning horizon: 50 doublings
+    (a 1e15-fold growth) at the central doubling time; exponential growth is not extrapolated
+    further (A)."""
     reference_median_year: float | None = None
     """Median CRQC year of the reference task from the threat profile; None when not given."""
+    runtime_limit_hours: float = 24.0
+    """Expected runtime within which a construction meets the reference task (RSA-2048 within
+    a day); runtime above it costs log2(runtime / limit) extra doublings, for every method."""
 
     def __post_init__(self) -> None:
         for name in (
@@ -62,6 +68,7 @@ class ThreatParameters:
             "window_days",
             "doubling_years",
             "planning_horizon_years",
+            "runtime_limit_hours",
         ):
             value = getattr(self, name)
             if not (isinstance(value, int | float) and math.isfinite(value) and value > 0):
@@ -108,6 +115,11 @@ class ThreatParameters:
         return self.reaction_us * 1e-6
 
     @property
+    def matches_1905_09749(self) -> bool:
+        """Whether the physical layer is the one 1905.09749's and 2505.15917's figures assume."""
+        return (self.physical_error_rate, self.cycle_us, self.reaction_us) == (1e-3, 1.0, 10.0)
+
+    @property
     def window_seconds(self) -> float:
         """Search window in seconds."""
         return self.window_days * SECONDS_PER_DAY
@@ -118,6 +130,7 @@ def _option(name: str) -> str:
         "physical_error_rate": "--error-rate",
         "cycle_us": "--cycle-us",
         "reaction_us": "--reaction-us",
+        "doubling_years": "qubit_doubling_years",
     }
     return options.get(name, name.replace("_", " "))
 

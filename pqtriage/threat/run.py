@@ -15,7 +15,11 @@ from pqtriage.errors import UsageError
 from pqtriage.threat.estimate import Estimate, estimate
 from pqtriage.threat.methods import MethodData, load_method_data
 from pqtriage.threat.parameters import ThreatParameters
-from pqtriage.threat.resource_arrival import ArrivalDistribution, ResourceArrivalModel
+from pqtriage.threat.resource_arrival import (
+    ArrivalDistribution,
+    ResourceArrivalModel,
+    SampleSource,
+)
 
 Resolver = Callable[[str], "AlgorithmSpec | Resolution | None"]
 
@@ -57,16 +61,17 @@ def run_estimates(
     algorithm: str | None,
     all_: bool,
     method: str | None,
-    error_rate: float,
-    cycle_us: float,
-    reaction_us: float,
-    maxdepth: float,
+    error_rate: float | None,
+    cycle_us: float | None,
+    reaction_us: float | None,
+    maxdepth: float | None,
     *,
     resolve: Resolver,
     specs: Callable[[], Iterable[AlgorithmSpec]] | Iterable[AlgorithmSpec],
     base: ThreatParameters | None = None,
     profile: ArrivalDistribution | None = None,
     as_of_year: float | None = None,
+    design: SampleSource | None = None,
 ) -> EstimateRun:
     """Estimate one algorithm, or every catalog algorithm with a quantum attack (``all_``).
 
@@ -74,24 +79,27 @@ def run_estimates(
         algorithm: name to resolve; ignored with ``all_``.
         all_: estimate every catalog algorithm with a quantum attack side by side.
         method: construction id (--method), or None for the defaults.
-        error_rate, cycle_us, reaction_us: physical layer (--error-rate, --cycle-us, --reaction-us).
-        maxdepth: log2 of MAXDEPTH (--maxdepth).
+        error_rate, cycle_us, reaction_us: physical layer (--error-rate, --cycle-us,
+            --reaction-us); None keeps the hardware file's (``base``).
+        maxdepth: log2 of MAXDEPTH (--maxdepth); None keeps ``base``'s.
         resolve: catalog lookup, name -> AlgorithmSpec or Resolution (or None when unknown).
         specs: every catalog spec (a sequence or a callable returning one), for ``all_``.
-        base: further parameters (from the profile); the options above override them.
+        base: the hardware file's parameters; the options above override them.
         profile: threat profile for the years each algorithm falls (median and at its risk
             tolerance); None leaves the years out.
         as_of_year: decimal year of the assessment (--as-of), needed with ``profile``.
+        design: the uncertainty band's samples, for the arrival bands.
 
     Raises:
         UsageError: unknown algorithm or method, or out-of-range options.
     """
+    base = base or ThreatParameters()
     params = replace(
-        base or ThreatParameters(),
-        physical_error_rate=error_rate,
-        cycle_us=cycle_us,
-        reaction_us=reaction_us,
-        maxdepth_log2=maxdepth,
+        base,
+        physical_error_rate=base.physical_error_rate if error_rate is None else error_rate,
+        cycle_us=base.cycle_us if cycle_us is None else cycle_us,
+        reaction_us=base.reaction_us if reaction_us is None else reaction_us,
+        maxdepth_log2=base.maxdepth_log2 if maxdepth is None else maxdepth,
     )
     data = load_method_data()
     overrides: dict[str, str] = {}
@@ -104,7 +112,8 @@ def run_estimates(
             )
         overrides = {family: chosen.id for family in chosen.families}
     model = ResourceArrivalModel(
-        methods=overrides, params=params, data=data, profile=profile, as_of_year=as_of_year
+        methods=overrides, params=params, data=data, profile=profile, as_of_year=as_of_year,
+        design=design,
     )
     if all_:
         pool = specs() if callable(specs) else specs

@@ -95,6 +95,7 @@ def compact_names(names: Sequence[str]) -> str:
 def _group_key(e: Estimate) -> tuple[object, ...]:
     shift = e.arrival.shift_years if e.arrival is not None else None
     return (
+        bool(e.classically_broken),
         e.attack,
         e.problem,
         e.problem_bits,

@@ -131,7 +131,8 @@ def physical_resources(
             )
             seconds_per_ccz = layout.magic_state_site_cycles_per_toffoli * params.cycle_seconds
         reaction_seconds = logical.measurement_depth * layer_seconds
-        needed = max(1, math.ceil(logical.toffoli_count * seconds_per_ccz / reaction_seconds))
+        # A hair below an integer is that integer (150 / 25 cycles is 6.000000000000001 in floats).
+        needed = max(1, math.ceil(logical.toffoli_count * seconds_per_ccz / reaction_seconds - 1e-9))
         factories = needed if params.max_factories is None else min(needed, params.max_factories)
         factory_seconds = logical.toffoli_count * seconds_per_ccz / factories
         runtime = max(reaction_seconds, factory_seconds)

@@ -53,3 +53,26 @@ def test_hand_computed_numbers() -> None:
     assert by_id["ticket-web"].start_by == dt.date(2030, 1, 1)
     assert by_id["ticket-web"].exposure_probability == 0.0
     assert by_id["crew-archive"].exposure_probability == 1.0
+
+
+def banded_result() -> TriageResult:
+    """The same inventory under the shipped survey profile, with the uncertainty band."""
+    from pqtriage.pipeline import arrival_and_band
+    from pqtriage.sources.hardware_file import shipped_hardware
+
+    inventory = load_inventory(str(HERE / "small.yaml"))
+    profile = load_profile("survey-2025-upper")
+    day = dt.date(2026, 12, 1)
+    arrival, band = arrival_and_band(profile, day, shipped_hardware())
+    return triage(inventory, load_catalog(), profile, arrival, day, band)
+
+
+def test_ranked_table_with_the_band_exact_text() -> None:
+    # Central values (what the verdict and rank use) with the 10-90 % band beneath, dim. By hand
+    # for crew-archive (RSA-3072, x + y = 14): P = F(2026.915 + 14 - shift) on the survey's
+    # pessimistic end (Quantum Threat Timeline Report 2025, 49 % at 10 y, 70 % at 15 y):
+    # 0.49 + 0.21 x (12.35 - 10) / 5 = 0.589 with the model's shift of 2.38 years: "59%".
+    text = render(terminal_view(banded_result()))
+    lines = [line.rstrip() for line in text.splitlines()]
+    expected = (HERE / "expected_table_band.txt").read_text(encoding="utf-8").splitlines()
+    assert lines == expected

@@ -8,7 +8,7 @@ import math
 import pytest
 
 from pqtriage.model.profile import ThreatProfile, date_of, decimal_year
-from pqtriage.sources.profile_file import load_profile, parse_profile
+from pqtriage.sources.profile_file import load_profile, parse_profile, shipped_profiles
 
 
 def test_decimal_year_round_trip() -> None:
@@ -27,40 +27,77 @@ def test_crqc_year_only_file_is_a_valid_profile() -> None:
 
 
 def test_shipped_survey_profiles_match_published_ranges() -> None:
-    # Quantum Threat Timeline Report 2025 (Global Risk Institute, March 2026), as restated in
-    # shared/reference/published-figures.md section 5 (V2): 5-15%, 28-49%, 51-70%, 69-86%, 81-93%.
+    # Quantum Threat Timeline Report 2025 (Global Risk Institute, published 9 March 2026), the
+    # reference sheet's sections 5 and 8.4 (V2): 5-15%, 28-49%, 51-70%, 69-86%, 81-93%.
     upper = load_profile("survey-2025-upper")
     lower = load_profile("survey-2025-lower")
     assert [p for _, p in upper.points] == [0.15, 0.49, 0.70, 0.86, 0.93]
     assert [p for _, p in lower.points] == [0.05, 0.28, 0.51, 0.69, 0.81]
-    start = decimal_year(dt.date(2026, 3, 1))
+    # Both carry the whole range as their band; only the central curve differs.
+    assert upper.optimistic == lower.optimistic and upper.pessimistic == lower.pessimistic
+    assert (upper.central_position, lower.central_position) == (1.0, 0.0)
+    start = decimal_year(dt.date(2026, 3, 9))
     assert [round(y - start, 6) for y, _ in upper.points] == [5, 10, 15, 20, 30]
-    # Unconditioned at the reference date: the 10-year probability is the survey's.
+    # At the reference date: the 10-year probability is the survey's.
     assert upper.arrival_probability(start + 10, start) == pytest.approx(0.49)
     assert load_profile(None).name == "survey-2025-upper"  # the cautious end is the default
     assert "sells quantum-safe products" in upper.caveat
+    assert upper.row_flags == ("V2",) * 5
 
 
-def test_later_as_of_never_pushes_the_threat_later() -> None:
+def test_the_2024_edition_with_its_memory_rows_flagged() -> None:
+    # Quantum Threat Timeline Report 2024 (Global Risk Institute, December 2024), reference
+    # sheet section 8.4: 5 y 5-14 % and 10 y 19-34 % (V2); 15 y 39-62 % (V2, weak); 20 y 60-82 %
+    # and 30 y 77-92 % from memory (M): this test uses those two M rows, as flagged.
+    upper = load_profile("survey-2024-upper")
+    lower = load_profile("survey-2024-lower")
+    assert [p for _, p in upper.points] == [0.14, 0.34, 0.62, 0.82, 0.92]
+    assert [p for _, p in lower.points] == [0.05, 0.19, 0.39, 0.60, 0.77]
+    assert upper.row_flags == ("V2", "V2", "V2", "M", "M")
+    assert upper.reference_year == pytest.approx(decimal_year(dt.date(2024, 12, 1)))
+
+
+def test_profile_sources_cite_the_survey_not_a_file() -> None:
+    for name in shipped_profiles():
+        profile = load_profile(name)
+        assert "Quantum Threat Timeline Report" in profile.source
+        assert "Global Risk Institute" in profile.source
+        assert "shared/" not in profile.source and ".md" not in profile.source
+
+
+def test_no_crqc_by_the_as_of_date_holds_the_past_probability_at_the_as_of_date() -> None:
     profile = load_profile("survey-2025-upper")
-    start = decimal_year(dt.date(2026, 3, 1))
+    start = decimal_year(dt.date(2026, 3, 9))
     target = start + 10
-    later = profile.arrival_probability(target, start + 2)
-    # Hand computation: F(start+2) = 0.15 * 2/5 = 0.06; (0.49 - 0.06) / (1 - 0.06) = 0.45745
-    assert later == pytest.approx((0.49 - 0.06) / 0.94)
-    # Re-counting the survey's horizons from the later date would give F(target - 2), with
-    # F(start + 8) = 0.15 + 0.34 * 3/5 = 0.354: lower, i.e. the threat pushed later. Conditioning
-    # keeps the calendar years of the survey.
-    reanchored = profile.arrival_probability(target - 2, start)
-    assert reanchored == pytest.approx(0.354)
-    assert later > reanchored
-    assert profile.quantile(0.10, start + 2) < profile.quantile(0.10, start) + 2
+    # Two quiet years later, the probability for the same calendar date is unchanged: the
+    # survey's F(start + 10) = 0.49; the 0.06 it put before start + 2 (0.15 x 2/5) is held at
+    # the as-of date (it may arrive at any moment), never spread over later years.
+    assert profile.arrival_probability(target, start + 2) == pytest.approx(0.49)
+    # It arrives "at any moment": by a week after the as-of date, P is at least 0.06.
+    assert profile.arrival_probability(start + 2 + 7 / 365.25, start + 2) >= 0.06
+    # Re-counting the survey's horizons from the later date would give F(target - 2) = 0.354
+    # (0.15 + 0.34 x 3/5): the threat pushed later; holding it is more cautious.
+    assert profile.arrival_probability(target - 2, start) == pytest.approx(0.354)
+    # z at 10 %: F reaches 0.10 at 0.10 / 0.15 x 5 = 3.33 years; two years on, the same year.
+    assert profile.quantile(0.10, start) == pytest.approx(start + 10 / 3)
+    assert profile.quantile(0.10, start + 2) == pytest.approx(start + 10 / 3)
+    # Once that year has passed without a CRQC, z is the as-of date itself (overdue).
+    assert profile.quantile(0.10, start + 4) == pytest.approx(start + 4)
 
 
-def test_quantile_beyond_horizon_is_infinite() -> None:
+def test_the_cautious_tail_keeps_the_rest_of_the_probability_inside_the_horizon() -> None:
     profile = load_profile("survey-2025-upper")
-    start = decimal_year(dt.date(2026, 3, 1))
-    assert math.isinf(profile.quantile(0.99, start))
+    start = profile.reference_year
+    # Last interval 20 -> 30 years: 0.86 -> 0.93, 0.007 a year; at that rate the remaining 0.07
+    # takes 10 years: probability 1 at 40 years (the optimistic end: 0.012 a year, 45.8 years).
+    assert profile.tail_end_year == pytest.approx(start + 40)
+    assert profile.cdf(start + 35) == pytest.approx(0.93 + 0.007 * 5)
+    assert math.isfinite(profile.quantile(0.99, start))
+    # After the last horizon no date makes P zero: as of 2060 (34 years on), P within a year
+    # is (F(35) - F(34)) held... here F(35) = 0.965 with the held mass: never 0.
+    late = start + 34
+    assert profile.arrival_probability(late + 1, late) > 0.9
+    assert profile.arrival_probability(start + 60, start + 50) == 1.0
 
 
 def test_shift_moves_the_distribution() -> None:
@@ -80,6 +117,12 @@ def test_shift_moves_the_distribution() -> None:
         (b"reference_date: 2026-03-01\narrival:\n  - {within_years: 5, probability: 0.5}\n"
          b"  - {within_years: 10, probability: 0.4}\n", "never decrease"),
         (b"risk_tolerance: 2\ncrqc_year: 2035\n", "outside"),
+        (b"reference_date: 2026-03-01\narrival:\n  - {within_years: 5, optimistic: 0.5, pessimistic: 0.4}\n",
+         "above 'pessimistic'"),
+        (b"reference_date: 2026-03-01\ncentral: middle\narrival:\n"
+         b"  - {within_years: 5, optimistic: 0.1, pessimistic: 0.4}\n", "'central' must be"),
+        (b"reference_date: 2026-03-01\ntail: flat\narrival:\n  - {within_years: 5, probability: 0.1}\n",
+         "unknown tail rule"),
         (b"- a\n", "must be a mapping"),
     ],
 )

@@ -47,8 +47,10 @@ def test_working_view_mentions_the_default_and_sources() -> None:
     # The default's own layout: yoked storage and cultivation sites, not 72-tile factories.
     assert "arXiv:1905.09749" in text and "arXiv:2312.04522" in text
     assert "arXiv:2409.17595" in text and "arXiv:1812.01238" not in text
-    generic = render(run("RSA-2048", method="1905.09749"))  # type: ignore[arg-type]
-    assert "arXiv:1812.01238" in generic and "arXiv:2312.04522" not in generic
+    # 1905.09749 on its own layer: the paper's table (commit 4ce507c), not the model's factories.
+    table = render(run("RSA-2048", method="1905.09749"))  # type: ignore[arg-type]
+    assert "factoring table of arXiv:1905.09749 (4ce507c, V)" in table
+    assert "arXiv:2312.04522" not in table and "published circuit" in table
 
 
 def test_all_lists_every_attackable_algorithm_once() -> None:
@@ -56,7 +58,7 @@ def test_all_lists_every_attackable_algorithm_once() -> None:
     assert sorted(d["algorithm"] for d in doc) == sorted(BY_NAME)
     # A factoring method does not apply to curves: they keep their default.
     methods = {d["algorithm"]: d["method"] for d in doc}
-    assert methods["ECDSA P-256"] == "2306.08585" and methods["RSA-2048"] == "1905.09749"
+    assert methods["ECDSA P-256"] == "2606.02235" and methods["RSA-2048"] == "1905.09749"
 
 
 def test_options_reach_the_physical_layer() -> None:

@@ -11,7 +11,12 @@ import yaml
 from pqtriage.errors import CatalogError
 from pqtriage.threat.methods import load_method_data, parse_method_data
 
-REQUIRED_IDS = {"1905.09749", "2505.15917", "1611.07995", "1706.06752", "2306.08585"}
+REQUIRED_IDS = {
+    "1905.09749", "2505.15917", "1611.07995", "1706.06752", "2306.08585",
+    # Curves after 2023 (reference sheet section 8.3): arXiv:2603.28846 (March 2026),
+    # arXiv:2606.02235 (June 2026), IACR ePrint 2026/280 (EUROCRYPT 2026).
+    "2603.28846", "2606.02235", "2026/280",
+}
 
 
 def _document() -> dict:  # type: ignore[type-arg]
@@ -24,7 +29,8 @@ def test_every_construction_of_the_issue_is_a_sourced_row() -> None:
     assert {m.id for m in data.shor_methods} == REQUIRED_IDS
     for m in data.shor_methods:
         assert m.source and m.title and m.year >= 2017 and m.notes
-        assert f"arXiv:{m.id}" in m.source
+        assert f"arXiv:{m.id}" in m.source or f"ePrint {m.id}" in m.source
+        assert m.check in {"published-circuit", "withheld-circuit", "not-checked"} and m.check_note
     assert data.surface_code.source
     # Method-level layout values each carry a source and a flag; calibrations say so.
     layouts = [m.layout for m in data.shor_methods if m.layout is not None]
@@ -43,7 +49,15 @@ def test_every_construction_of_the_issue_is_a_sourced_row() -> None:
         (lambda d: d["shor_methods"][0].pop("source"), "missing 'source'"),
         (lambda d: d["shor_methods"][0].update(families=["lattice"]), "unknown family"),
         (lambda d: d["shor_methods"].append(copy.deepcopy(d["shor_methods"][0])), "duplicate"),
-        (lambda d: d["shor_methods"][1].update(default_for=[]), "defaults for factoring"),
+        (lambda d: d["shor_methods"][1].update(default_for=[]), "needs exactly one default"),
+        (lambda d: d["shor_methods"][0].update(check="peer-reviewed"), "'check' must be one of"),
+        (lambda d: d["shor_methods"][1]["logical_table"][0].pop("commit"), "malformed logical_table"),
+        (lambda d: d["shor_methods"][1]["logical_table"].append(
+            copy.deepcopy(d["shor_methods"][1]["logical_table"][0])), "repeats a size"),
+        (lambda d: d["shor_methods"][0]["physical_table"]["factoring"][0].update(retry_risk=1.5),
+         "out of range"),
+        (lambda d: d["shor_methods"][0].pop("physical_table_source"), "needs a physical_table_source"),
+        (lambda d: d["shor_methods"][6].update(physical_layout_of="1905.09749"), "names no method"),
         (
             lambda d: d["shor_methods"][0].update(toffoli_count={"per_toffoli": 1}),
             "cannot be per_toffoli",

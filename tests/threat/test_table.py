@@ -36,20 +36,25 @@ def test_side_by_side_exact_text_with_grouping_and_legend() -> None:
         as_of="2026-04-01",
     )
     assert render(side_by_side(rows, context)).splitlines() == [
-        "             What falls when, against RSA-2048 factored in about a day",
-        "                                                         NIST          falls",
-        "algorithms          method      qubits  runtime  q-bits  cat.   shift  10% / median",
-        "\u2500" * 83,
+        "                  What falls when, against RSA-2048 factored in about a day",
+        "                                logical  physical           q-bits          falls         band",
+        "algorithms          method       qubits    qubits  runtime   /cat.   shift  10% / median  10%",
+        "\u2500" * 94,
         # Equal years and shifts: by label. ECDSA and ECDH P-256 share one row.
-        "P-256 (ECDSA/ECDH)  1905.09749    20 M    5.1 h       -  -     +0.0 y  2029 / 2036",
-        "RSA-2048            1905.09749    20 M    5.1 h       -  -     +0.0 y  2029 / 2036",
+        "P-256 (ECDSA/ECDH)  1905.09749    6,189      20 M    5.1 h       -  +0.0 y  2029 / 2036   -",
+        "RSA-2048            1905.09749    6,189      20 M    5.1 h       -  +0.0 y  2029 / 2036   -",
         "methods: factoring 1905.09749; collisions: classical bound.",
-        "assumptions: error rate 0.001, cycle 1 us, reaction 10 us, run failure <= 0.25, capacity doubles",
-        "  every 2 y, MAXDEPTH 2^64; reference RSA-2048 20 M qubits.",
-        "shift = 2 x log2(qubits / reference qubits), both costed like with like (so not always the qubits",
-        "  shown); beyond horizon: over 100 y. Qubits: physical, one run (Shor); q-bits: quantum security",
-        "  bits (Grover).",
-        "falls: year at 10% risk tolerance / median, profile test, given no CRQC by 2026-04-01.",
+        "assumptions (hardware file): error rate 0.001, cycle 1 us, reaction 10 us, run failure <= 0.25,",
+        "  usable qubits double every 1 y, runtime limit 24 h, MAXDEPTH 2^64; reference RSA-2048 20 M",
+        "  qubits.",
+        "shift = 1 y x (log2(qubits / reference qubits) + log2(expected runtime / 24 h) where over the",
+        "  limit), both costed like with like (so not always the qubits shown); beyond horizon: over 50 y.",
+        "  Qubits: one run (Shor); q-bits/cat.: quantum security bits and NIST category. Methods: the",
+        "  default per family is the most recent result whose circuit is published. Tables:",
+        "  arXiv:2505.15917 and 1905.09749 rows, log-scale interpolation between them.",
+        "falls: year at 10% risk tolerance / median, profile test, given no CRQC by 2026-04-01; band 10%:",
+        "  the 10-90 % band of the first year over the survey range, the doubling time and the",
+        "  construction; broken now: classically broken today, no quantum date applies.",
         "Caution: estimates are uncertain by years; official guidance and deadlines come first.",
     ]
 
@@ -114,12 +119,12 @@ def test_rows_are_sorted_by_the_year_they_fall() -> None:
 
 
 def test_years_of_the_reference_task_match_the_survey() -> None:
-    # Quantum Threat Timeline Report 2025 (Global Risk Institute, 2026), upper end (V2):
-    # 15 % within 5 years, 49 % within 10, 70 % within 15 of the report (2026-03-01).
+    # Quantum Threat Timeline Report 2025 (Global Risk Institute, published 9 March 2026), upper
+    # end (V2): 15 % within 5 years, 49 % within 10, 70 % within 15 of the report.
     # Median: 10 + 5 x (0.50 - 0.49) / 0.21 = 10.24 years; 10 %: 5 x 0.10 / 0.15 = 3.33 years.
-    model = ResourceArrivalModel(profile=PROFILE, as_of_year=decimal_year(dt.date(2026, 3, 1)))
+    model = ResourceArrivalModel(profile=PROFILE, as_of_year=decimal_year(dt.date(2026, 3, 9)))
     row = model.explain(rsa(2048))
-    start = decimal_year(dt.date(2026, 3, 1))
+    start = decimal_year(dt.date(2026, 3, 9))
     assert row.median_year == pytest.approx(start + 10.24, abs=0.01)
     assert row.cautious_year == pytest.approx(start + 3.33, abs=0.01)
     # A shifted algorithm falls that much later (no conditioning bites when nothing could

@@ -117,8 +117,8 @@ def test_working_view_shows_the_years_from_the_profile() -> None:
     ]
     assert text.endswith(
         "years: quantiles of profile test shifted by +0.0 years, given no CRQC by 2026.25: median, "
-        "and the\nyear its probability reaches the 10% risk tolerance. Estimates are uncertain; "
-        "official guidance\ncomes first."
+        "and the\nyear its probability reaches the 10% risk tolerance; bands over the survey range, "
+        "the doubling time\nand the construction. Estimates are uncertain; official guidance comes first."
     )
 
 

@@ -20,9 +20,12 @@ from pqtriage.model.verdict import SystemAssessment, TriageResult
 COLUMNS: tuple[str, ...] = (
     "rank", "system_id", "system_name", "verdict", "weakest_algorithm", "purpose",
     "x_years", "y_years", "start_by", "exposure_probability", "margin_years",
+    "exposure_probability_low", "exposure_probability_high", "start_by_earliest", "start_by_latest",
+    "crqc_year", "crqc_year_low", "crqc_year_high",
     "replacement", "criticality", "exposure", "owner", "assumed", "reason",
 )
-"""Header row: the ranked table's columns, then the facts a spreadsheet user filters on."""
+"""Header row: the ranked table's columns, the 10-90 % band of P, start-by and z (empty where
+none applies; infinite years empty), then the facts a spreadsheet user filters on."""
 
 
 def _number(value: float | None, digits: int) -> str:
@@ -31,9 +34,14 @@ def _number(value: float | None, digits: int) -> str:
     return f"{round(value, digits):g}"
 
 
+def _date(day: object) -> str:
+    return day.isoformat() if day is not None else ""  # type: ignore[attr-defined]
+
+
 def row(item: SystemAssessment) -> list[str]:
     """One system's cells, in COLUMNS order."""
     weakest = item.weakest
+    band = weakest.band if weakest else None
     spec = (weakest.deciding or weakest.spec) if weakest else None
     algorithm = spec.name if spec else (weakest.use.algorithm if weakest else "")
     system = item.system
@@ -49,6 +57,13 @@ def row(item: SystemAssessment) -> list[str]:
         item.start_by.isoformat() if item.start_by else "",
         _number(item.exposure_probability, 4),
         _number(item.margin_years, 2),
+        _number(band.exposure_probability.low, 4) if band else "",
+        _number(band.exposure_probability.high, 4) if band else "",
+        _date(band.start_by[0]) if band else "",
+        _date(band.start_by[1]) if band else "",
+        _number(weakest.crqc_year, 2) if weakest else "",
+        _number(band.crqc_year.low, 2) if band else "",
+        _number(band.crqc_year.high, 2) if band else "",
         csv_cell(short_replacement(weakest.replacement) if weakest and weakest.replacement else ""),
         system.criticality.value,
         system.exposure.value,

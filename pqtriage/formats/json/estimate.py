@@ -14,6 +14,12 @@ def _finite(value: float | None) -> float | None:
     return None if value is None or not math.isfinite(value) else value
 
 
+def _pair(band: tuple[float, float] | None) -> dict[str, Any] | None:
+    if band is None:
+        return None
+    return {"low": _finite(band[0]), "high": _finite(band[1]), "percentiles": [10, 90]}
+
+
 def to_json_dict(estimate: Estimate) -> dict[str, Any]:
     """A JSON-ready dict: numbers that do not apply are None; infinities become None with a flag."""
     arrival = estimate.arrival
@@ -33,6 +39,10 @@ def to_json_dict(estimate: Estimate) -> dict[str, Any]:
             "reference_physical_qubits": arrival.reference_physical_qubits,
             "basis": arrival.basis,
             "explanation": arrival.explanation,
+            "why_method": arrival.why_method,
+            "alternatives": [{"method": m, "shift_years": _finite(s)} for m, s in arrival.alternatives],
+            "cautious_year_band": _pair(arrival.cautious_band),
+            "median_year_band": _pair(arrival.median_band),
         }
     return {
         "algorithm": estimate.algorithm,
@@ -51,6 +61,9 @@ def to_json_dict(estimate: Estimate) -> dict[str, Any]:
         "factories": estimate.factories,
         "runtime_hours": estimate.runtime_hours,
         "runtime_limited_by": estimate.runtime_limited_by,
+        "expected_runtime_hours": estimate.expected_runtime_hours,
+        "method_check": estimate.method_check,
+        "classically_broken": estimate.classically_broken or None,
         "failure_probability": estimate.failure_probability,
         "grover_iterations_log2": estimate.grover_iterations_log2,
         "total_gates_log2": estimate.total_gates_log2,

@@ -7,6 +7,7 @@ import math
 from typing import Any
 
 from pqtriage import __version__
+from pqtriage.formats.bands import band_dict, system_band
 from pqtriage.formats.interface import ResultFormat
 from pqtriage.formats.notes import CAUTIONS, SOURCES, assumptions
 from pqtriage.model.inventory import SourceRef
@@ -57,6 +58,7 @@ def use_dict(item: UseAssessment) -> dict[str, Any]:
         "crqc_year": _number(item.crqc_year, 2),
         "beyond_horizon": item.crqc_year is not None and math.isinf(item.crqc_year),
         "arrival_shift_years": _number(item.shift_years, 2),
+        "band": band_dict(item.band),
         "reason": item.reason,
         "suggestions": list(item.suggestions),
         "assumptions": list(item.assumptions),
@@ -75,6 +77,7 @@ def system_dict(item: SystemAssessment) -> dict[str, Any]:
         "exposure_probability": _number(item.exposure_probability),
         "margin_years": _number(item.margin_years, 2),
         "start_by": item.start_by.isoformat() if item.start_by else None,
+        "band": band_dict(system_band(item)),
         "reason": item.reason,
         "shelf_life_years": system.shelf_life_years,
         "migration_years": system.migration_years,
@@ -111,6 +114,16 @@ def result_dict(result: TriageResult, with_items: bool = True) -> dict[str, Any]
             "caveat": profile.caveat,
         },
         "arrival_model": result.arrival_model,
+        "uncertainty": None if result.band is None else {
+            "description": result.band.describe(),
+            "samples": result.band.samples,
+            "seed": result.band.seed,
+            "percentiles": [10, 90],
+            "survey": result.band.survey,
+            "doubling_years": list(result.band.doubling),
+            "methods": list(result.band.methods),
+            "ranking_uses": "central value",
+        },
         "summary": {
             "systems": summary.systems,
             "uses": summary.uses,

@@ -7,6 +7,30 @@ from pqtriage.formats.text import markdown_code
 from pqtriage.model.sensitivity import Sensitivity
 
 
+def band_lines(s: Sensitivity) -> list[str]:
+    """Which verdicts flip inside the uncertainty band (10-90 %), as Markdown lines."""
+    if not s.band_checked:
+        return []
+    lines = ["### Verdicts that flip inside the uncertainty band", ""]
+    if not s.band_flips:
+        lines += ["No system's verdict changes between the optimistic and pessimistic ends of the "
+                  "10-90 % band.", ""]
+        return lines
+    lines.append(f"{len(s.band_flips)} systems change verdict between the ends of the 10-90 % band "
+                 "(every use at its optimistic end, or every use at its pessimistic end); the "
+                 "report's verdict is the central one.")
+    lines.append("")
+    lines.append("| System | Central | Optimistic end | Pessimistic end |")
+    lines.append("|---|---|---|---|")
+    for flip in s.band_flips:
+        lines.append(f"| {markdown_code(flip.system_id)} | {VERDICT_LABEL[flip.central]} | "
+                     f"{VERDICT_LABEL[flip.optimistic]} | {VERDICT_LABEL[flip.pessimistic]} |")
+    lines.append("")
+    lines.append("### Moving the arrival")
+    lines.append("")
+    return lines
+
+
 def sensitivity_markdown(s: Sensitivity) -> str:
     """Markdown section with the same table."""
     lines = ["## Sensitivity to the CRQC arrival", ""]
@@ -15,6 +39,7 @@ def sensitivity_markdown(s: Sensitivity) -> str:
         "positive later; every algorithm's arrival moves by the same number of years."
     )
     lines.append("")
+    lines += band_lines(s)
     if not s.rows:
         lines.append("No system changes verdict within the shifts tried.")
         return "\n".join(lines) + "\n"

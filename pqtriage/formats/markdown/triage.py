@@ -6,6 +6,13 @@ import math
 from collections.abc import Sequence
 
 from pqtriage import __version__
+from pqtriage.formats.bands import (
+    BAND_NOTE,
+    probability_range,
+    start_range,
+    system_band,
+    year_range,
+)
 from pqtriage.formats.interface import ResultFormat
 from pqtriage.formats.labels import VERDICT_LABEL, short_replacement
 from pqtriage.formats.notes import CAUTIONS, SOURCES, assumptions, fmt_year
@@ -23,6 +30,25 @@ md = markdown_text
 
 def _pct(value: float | None) -> str:
     return "n/a" if value is None else f"{value:.0%}"
+
+
+def _pct_band(value: float | None, band: object) -> str:
+    """'62% (35-62%)': the central value and its 10-90 % band."""
+    text = _pct(value)
+    extra = probability_range(band)  # type: ignore[arg-type]
+    return f"{text} ({extra})" if extra else text
+
+
+def _start_band(value: object, band: object, as_of: object) -> str:
+    text = _start_by(value, as_of)
+    extra = start_range(band, as_of)  # type: ignore[arg-type]
+    return f"{text} (band {extra})" if extra else text
+
+
+def _z_band(value: float | None, band: object) -> str:
+    text = fmt_year(value)
+    extra = year_range(band)  # type: ignore[arg-type]
+    return f"{text} ({extra})" if extra else text
 
 
 def _margin(value: float | None) -> str:
@@ -104,8 +130,8 @@ def ranked_table(result: TriageResult) -> list[str]:
             md(weakest.use.purpose.value) if weakest else "n/a",
             f"{weakest.x_years:g}" if weakest else "n/a",
             f"{item.system.migration_years:g}",
-            _start_by(item.start_by, result.as_of),
-            _pct(item.exposure_probability),
+            _start_band(item.start_by, system_band(item), result.as_of),
+            _pct_band(item.exposure_probability, system_band(item)),
             VERDICT_LABEL[item.verdict],
             md(short_replacement(weakest.replacement if weakest else None)),
         ])
@@ -116,6 +142,9 @@ def ranked_table(result: TriageResult) -> list[str]:
     )
     lines.append("")
     lines.append("Verdicts: " + "; ".join(f"**{VERDICT_LABEL[v]}**: {VERDICT_MEANING[v]}" for v in Verdict) + ".")
+    if result.band is not None:
+        lines.append("")
+        lines.append(BAND_NOTE)
     if any(i.system.assumed for i in result.items):
         lines.append("")
         lines.append("\\* x or y of this system is an assumed default, not a fact from the inventory.")
@@ -132,9 +161,9 @@ def system_detail(item: SystemAssessment, as_of: object = None) -> list[str]:
         ("Verdict", f"{VERDICT_LABEL[item.verdict]} ({md(item.reason)})"),
         ("Shelf-life x", f"{system.shelf_life_years:g} years" + (" (assumed)" if "shelf_life_years" in system.assumed else "")),
         ("Migration y", f"{system.migration_years:g} years" + (" (assumed)" if "migration_years" in system.assumed else "")),
-        ("Exposure probability", _pct(item.exposure_probability)),
+        ("Exposure probability", _pct_band(item.exposure_probability, system_band(item))),
         ("Margin", _margin(item.margin_years) + " years"),
-        ("Start by", _start_by(item.start_by, as_of)),
+        ("Start by", _start_band(item.start_by, system_band(item), as_of)),
         ("Criticality / exposure", f"{system.criticality.value} / {system.exposure.value}"),
     ]
     if system.owner:
@@ -158,8 +187,8 @@ def system_detail(item: SystemAssessment, as_of: object = None) -> list[str]:
             str(spec.classical_bits) if spec and spec.classical_bits is not None else "n/a",
             spec.quantum_attack if spec else "n/a",
             f"{use.x_years:g}",
-            fmt_year(use.crqc_year),
-            _pct(use.exposure_probability),
+            _z_band(use.crqc_year, use.band),
+            _pct_band(use.exposure_probability, use.band),
             _margin(use.margin_years),
             VERDICT_LABEL[use.verdict],
             md(use.replacement or "none needed" if use.verdict != Verdict.UNASSESSED else "check by hand"),
@@ -207,8 +236,12 @@ def method_section(result: TriageResult) -> list[str]:
     lines.append("")
     lines.append(
         "Ranking: classical breakage first, then exposure probability, then margin, then criticality and "
-        "exposure to interception; the system id breaks ties. A system's verdict is its weakest use's."
+        "exposure to interception; the system id breaks ties. A system's verdict is its weakest use's. "
+        "Verdicts and the ranking use the central values; the bands in parentheses are not used for ordering."
     )
+    if result.band is not None:
+        lines.append("")
+        lines.append(f"Uncertainty: {md(result.band.describe())}")
     lines.append("")
     if result.arrivals:
         lines.append("Arrivals used (z at the risk tolerance, per algorithm, and the shift against the "

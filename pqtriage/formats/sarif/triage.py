@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import hashlib
 import json
+import math
 import re
 from typing import Any
 from urllib.parse import quote
@@ -131,6 +132,20 @@ def result_entry(item: SystemAssessment, use: UseAssessment, rule_index: int, in
         properties["exposureProbability"] = round(use.exposure_probability, 4)
     if use.start_by is not None:
         properties["startBy"] = use.start_by.isoformat()
+    if use.crqc_year is not None and math.isfinite(use.crqc_year):
+        properties["crqcYear"] = round(use.crqc_year, 2)
+    if use.band is not None:
+        band = use.band
+        properties["exposureProbabilityLow"] = round(band.exposure_probability.low, 4)
+        properties["exposureProbabilityHigh"] = round(band.exposure_probability.high, 4)
+        for key, value in (("crqcYearLow", band.crqc_year.low), ("crqcYearHigh", band.crqc_year.high)):
+            if math.isfinite(value):
+                properties[key] = round(value, 2)
+        if band.start_by[0] is not None:
+            properties["startByEarliest"] = band.start_by[0].isoformat()
+        if band.start_by[1] is not None:
+            properties["startByLatest"] = band.start_by[1].isoformat()
+        properties["band"] = "10-90 % over seeded samples; verdict and rank use the central value"
     if use.replacement:
         properties["replacement"] = visible(use.replacement)
     return {

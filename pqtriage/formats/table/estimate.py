@@ -63,8 +63,17 @@ def year_label(year: float | None) -> str:
     return f"{math.floor(year)}"
 
 
+def year_band_label(band: tuple[float, float] | None) -> str:
+    """'2029-2031' for a band of decimal years; '' without one or without width."""
+    if band is None or year_label(band[0]) == year_label(band[1]):
+        return ""
+    return f"{year_label(band[0])}-{year_label(band[1])}"
+
+
 def falls_label(estimate: Estimate) -> str:
-    """'2031 / 2037' (cautious / median), 'beyond horizon', or '-' without profile years."""
+    """'2031 / 2037' (cautious / median), 'broken now', 'beyond horizon', or '-' without years."""
+    if estimate.classically_broken:
+        return "broken now"
     arrival = estimate.arrival
     if arrival is None:
         return NOT_APPLICABLE
@@ -101,6 +110,10 @@ def key_figures(estimate: Estimate) -> list[tuple[str, str]]:
         ("method", _method(estimate)),
         ("classical security", _bits(estimate.classical_security_bits)),
     ]
+    if estimate.classically_broken:
+        rows.insert(0, ("classical status", "BROKEN TODAY: " + estimate.classically_broken))
+    if estimate.method_check:
+        rows.append(("how checked", estimate.method_check))
     if estimate.attack == "shor" and estimate.logical_qubits is not None:
         rows += [
             ("logical qubits", _count(estimate.logical_qubits)),
@@ -109,6 +122,9 @@ def key_figures(estimate: Estimate) -> list[tuple[str, str]]:
             ("physical qubits", _physical(estimate.physical_qubits)),
             ("runtime per run", compact_hours(estimate.runtime_hours)),
         ]
+        if estimate.expected_runtime_hours is not None:
+            rows.append(("expected runtime",
+                         compact_hours(estimate.expected_runtime_hours) + " (retries included)"))
     if estimate.attack == "grover":
         rows += [
             ("Grover iterations", _log2(estimate.grover_iterations_log2)),
@@ -119,14 +135,24 @@ def key_figures(estimate: Estimate) -> list[tuple[str, str]]:
     rows.append(("NIST category", _category(estimate.nist_category)))
     rows.append(("arrival shift", _shift(estimate)))
     arrival = estimate.arrival
-    if arrival is not None and arrival.profile is not None:
+    if arrival is not None and arrival.why_method:
+        rows.append(("why this method", arrival.why_method))
+    if estimate.classically_broken:
+        rows.append(("falls", "already broken by classical means: no quantum date applies"))
+    elif arrival is not None and arrival.profile is not None:
         if math.isinf(arrival.shift_years):
             rows.append(("falls", "beyond the planning horizon"))
         else:
             tolerance = arrival.risk_tolerance or 0.0
-            rows.append(("falls (median)", year_label(arrival.median_year)))
-            rows.append((f"falls ({tolerance:.0%} risk)", year_label(arrival.cautious_year)))
+            rows.append(("falls (median)", _with_band(year_label(arrival.median_year), arrival.median_band)))
+            rows.append((f"falls ({tolerance:.0%} risk)",
+                         _with_band(year_label(arrival.cautious_year), arrival.cautious_band)))
     return rows
+
+
+def _with_band(text: str, band: tuple[float, float] | None) -> str:
+    extra = year_band_label(band)
+    return f"{text} (10-90 % band {extra})" if extra else text
 
 
 def _physical(value: float | None) -> str:
@@ -161,8 +187,11 @@ def working_view(estimate: Estimate) -> RenderableType:
         Text("working:"),
         steps,
     ]
-    if estimate.arrival is not None:
+    if estimate.arrival is not None and not estimate.classically_broken:
         parts.append(Text(f"arrival: {estimate.arrival.explanation}"))
+        if estimate.arrival.alternatives:
+            listed = ", ".join(f"{m} {_signed(s)}" for m, s in estimate.arrival.alternatives)
+            parts.append(Text(f"other constructions the band samples: {listed}"))
         if estimate.arrival.profile is not None:
             parts.append(Text(_years_sentence(estimate.arrival)))
     if estimate.notes:
@@ -170,11 +199,15 @@ def working_view(estimate: Estimate) -> RenderableType:
     return Group(*parts)
 
 
+def _signed(shift: float) -> str:
+    return "beyond horizon" if math.isinf(shift) else f"{shift:+.1f} y"
+
+
 def _years_sentence(arrival: ArrivalRow) -> str:
     as_of = arrival.as_of_year or 0.0
     return (
         f"years: quantiles of profile {arrival.profile} shifted by {arrival.shift_years:+.1f} "
         f"years, given no CRQC by {as_of:.2f}: median, and the year its probability reaches the "
-        f"{arrival.risk_tolerance or 0:.0%} risk tolerance. Estimates are uncertain; official "
-        "guidance comes first."
+        f"{arrival.risk_tolerance or 0:.0%} risk tolerance; bands over the survey range, the "
+        "doubling time and the construction. Estimates are uncertain; official guidance comes first."
     )

@@ -11,6 +11,21 @@ from pqtriage.formats.text import visible
 from pqtriage.model.sensitivity import Sensitivity
 
 
+def band_table(s: Sensitivity) -> Table:
+    """Rich table: the systems whose verdict flips inside the uncertainty band."""
+    title = (f"Verdicts that flip inside the 10-90 % band ({len(s.band_flips)} systems)"
+             if s.band_flips else "No verdict flips inside the 10-90 % band")
+    table = Table(title=Text(title), header_style="bold", pad_edge=False)
+    table.add_column("System", overflow="fold")
+    for name in ("Central", "Optimistic end", "Pessimistic end"):
+        table.add_column(name, no_wrap=True)
+    for flip in s.band_flips:
+        table.add_row(Text(visible(flip.system_id)), *(
+            Text(VERDICT_LABEL[v], style=VERDICT_STYLE[v])
+            for v in (flip.central, flip.optimistic, flip.pessimistic)))
+    return table
+
+
 def sensitivity_table(s: Sensitivity) -> Table:
     """Rich table: one row per system that changes verdict."""
     table = Table(title=Text(sensitivity_title(s)), header_style="bold", pad_edge=False)

@@ -20,6 +20,7 @@ from pqtriage.formats.table.estimate import (
     compact_hours,
     compact_qubits,
     falls_label,
+    year_label,
 )
 from pqtriage.threat.estimate import Estimate
 from pqtriage.threat.methods import MethodData
@@ -27,7 +28,7 @@ from pqtriage.threat.parameters import ThreatParameters
 from pqtriage.threat.resource_arrival import ArrivalDistribution, ResourceArrivalModel
 from pqtriage.threat.side_by_side import TARGETS, TableContext, group_estimates
 
-NAME_WIDTH = 30
+NAME_WIDTH = 24
 """Widest algorithms column; longer lists wrap at commas, never truncate."""
 LEGEND_WIDTH = 98
 """Legend lines are wrapped here so that they read well at 100 columns."""
@@ -39,6 +40,17 @@ def _shift(e: Estimate) -> str:
         return NOT_APPLICABLE
     shift = arrival.computed_shift_years
     return f"{shift:+.0f} y" if abs(shift) >= 100 else f"{shift:+.1f} y"
+
+
+def _band(e: Estimate) -> str:
+    """The 10-90 % band of the cautious year, as two-digit years ('26-31')."""
+    arrival = e.arrival
+    if e.classically_broken or arrival is None or arrival.cautious_band is None:
+        return NOT_APPLICABLE
+    low, high = (year_label(v) for v in arrival.cautious_band)
+    if low == "beyond":
+        return NOT_APPLICABLE
+    return f"{low[2:]}-{high[2:] if high != 'beyond' else 'never'}"
 
 
 def _category(value: int | None) -> str:
@@ -61,22 +73,28 @@ def _legend(context: TableContext) -> Text:
     lines = [
         f"methods: {methods}; collisions: classical bound.",
         (
-            f"assumptions: error rate {p.physical_error_rate:g}, cycle {p.cycle_us:g} us, "
-            f"reaction {p.reaction_us:g} us, run failure <= {p.target_failure:g}, capacity "
-            f"doubles every {p.doubling_years:g} y, MAXDEPTH 2^{p.maxdepth_log2:g}{reference}."
+            f"assumptions (hardware file): error rate {p.physical_error_rate:g}, cycle "
+            f"{p.cycle_us:g} us, reaction {p.reaction_us:g} us, run failure <= "
+            f"{p.target_failure:g}, usable qubits double every {p.doubling_years:g} y, runtime "
+            f"limit {p.runtime_limit_hours:g} h, MAXDEPTH 2^{p.maxdepth_log2:g}{reference}."
         ),
         (
-            f"shift = {p.doubling_years:g} x log2(qubits / reference qubits), both costed like "
+            f"shift = {p.doubling_years:g} y x (log2(qubits / reference qubits) + log2(expected "
+            f"runtime / {p.runtime_limit_hours:g} h) where over the limit), both costed like "
             "with like (so not always the qubits shown); beyond horizon: over "
-            f"{p.planning_horizon_years:g} y. Qubits: physical, one run (Shor); q-bits: quantum "
-            "security bits (Grover)."
+            f"{p.planning_horizon_years:g} y. Qubits: one run (Shor); q-bits/cat.: quantum "
+            "security bits and NIST category. Methods: the default per family is the most "
+            "recent result whose circuit is published. Tables: arXiv:2505.15917 and 1905.09749 "
+            "rows, log-scale interpolation between them."
         ),
     ]
     if context.profile is not None:
         tolerance = context.risk_tolerance or 0.0
         lines.append(
             f"falls: year at {tolerance:.0%} risk tolerance / median, profile {context.profile}, "
-            f"given no CRQC by {context.as_of}."
+            f"given no CRQC by {context.as_of}; band 10%: the 10-90 % band of the first year over "
+            "the survey range, the doubling time and the construction; broken now: classically "
+            "broken today, no quantum date applies."
         )
     lines.extend(context.notes)
     lines.append(
@@ -99,27 +117,33 @@ def side_by_side(
     )
     table.add_column("algorithms", max_width=NAME_WIDTH, overflow="fold")
     table.add_column("method", no_wrap=True)
-    table.add_column("qubits", justify="right", no_wrap=True)
+    table.add_column("logical\nqubits", justify="right", no_wrap=True)
+    table.add_column("physical\nqubits", justify="right", no_wrap=True)
     table.add_column("runtime", justify="right", no_wrap=True)
-    table.add_column("q-bits", justify="right", no_wrap=True)
-    table.add_column("NIST\ncat.", no_wrap=True)
+    table.add_column("q-bits\n/cat.", justify="right", no_wrap=True)
     table.add_column("shift", justify="right", no_wrap=True)
     falls = "falls\n(median)"
     if context is not None and context.profile is not None:
         falls = f"falls\n{context.risk_tolerance or 0:.0%} / median"
     table.add_column(falls, no_wrap=True)
+    table.add_column("band\n10%", no_wrap=True)
     for group in group_estimates(estimates):
         e = group.first
         bits = e.quantum_security_bits
+        grover = NOT_APPLICABLE
+        if bits is not None:
+            category = _category(e.nist_category).replace("below 1", "<1")
+            grover = f"{bits:.0f}/{category}"
         table.add_row(
             Text(group.label),
             e.method or ("collision" if e.problem == "collision" else NOT_APPLICABLE),
+            NOT_APPLICABLE if e.logical_qubits is None else f"{e.logical_qubits:,.0f}",
             compact_qubits(e.physical_qubits),
             compact_hours(e.runtime_hours),
-            NOT_APPLICABLE if bits is None else f"{bits:.0f}",
-            _category(e.nist_category) if e.attack == "grover" else NOT_APPLICABLE,
+            grover,
             _shift(e),
             falls_label(e),
+            _band(e),
         )
     if context is None:
         return table
@@ -170,8 +194,8 @@ def legend_context(
             "Shifts compare like with like: both sides on one layer, their own layouts only if "
             f"both have one, else the generic surface-code layer (RSA-2048 under "
             f"{model.reference_method}: {compact_qubits(model.reference_generic_physical_qubits)}"
-            f"); the earliest credible pair decides{' unless named by --method' if model.methods else ''}. "
-            f"Pairs used: {listed} (docs/threat-model.md section 4)."
+            f"); the default construction decides{' (named by --method)' if model.methods else ''}, "
+            f"the band samples the others. Pairs used: {listed} (docs/threat-model.md section 5)."
         )
     return TableContext(
         params=params,

@@ -7,6 +7,7 @@ from rich.console import Group, RenderableType
 from rich.table import Table
 from rich.text import Text
 
+from pqtriage.formats.bands import probability_range, system_band
 from pqtriage.formats.labels import VERDICT_LABEL, short_replacement
 from pqtriage.formats.table.styles import VERDICT_STYLE
 from pqtriage.formats.table.summary import summary_block
@@ -26,13 +27,39 @@ def _years(value: float) -> str:
     return f"{value:g}"
 
 
-def _start_by(item: SystemAssessment, as_of: object) -> Text:
-    """The start-by date, or 'overdue' when it has passed (the JSON keeps the date)."""
-    if item.start_by is None:
+def _date(day: object, as_of: object) -> Text:
+    if day is None:
         return Text("-")
-    if item.start_by <= as_of:  # type: ignore[operator]
+    if day <= as_of:  # type: ignore[operator]
         return Text("overdue", style="red")
-    return Text(item.start_by.isoformat())
+    return Text(day.isoformat())  # type: ignore[attr-defined]
+
+
+def _start_by(item: SystemAssessment, as_of: object) -> Text:
+    """The start-by date, or 'overdue' when it has passed (the JSON keeps the date); the
+    band's latest start-by beneath it, dim."""
+    text = _date(item.start_by, as_of)
+    band = system_band(item)
+    latest_day = band.start_by[1] if band is not None else None
+    if band is not None and latest_day != item.start_by and not (
+        latest_day is not None and latest_day <= as_of  # type: ignore[operator]
+    ):
+        text.append("\n")
+        latest = _date(band.start_by[1], as_of)
+        text.append("..", style="dim")
+        text.append(latest.plain, style="dim")
+    return text
+
+
+def _probability(item: SystemAssessment) -> Text:
+    """P(exposed), with its 10-90 % band beneath it, dim."""
+    if item.exposure_probability is None:
+        return Text("-")
+    text = Text(f"{item.exposure_probability:.0%}")
+    band = probability_range(system_band(item))
+    if band:
+        text.append("\n" + band, style="dim")
+    return text
 
 
 def _row(item: SystemAssessment, as_of: object) -> list[RenderableType]:
@@ -48,7 +75,7 @@ def _row(item: SystemAssessment, as_of: object) -> list[RenderableType]:
         algo.append(f" {_PURPOSE_SHORT[weakest.use.purpose.value]}", style="dim")
         x = _years(weakest.x_years)
         replacement = short_replacement(weakest.replacement)
-    probability = "-" if item.exposure_probability is None else f"{item.exposure_probability:.0%}"
+    probability = _probability(item)
     start_by = _start_by(item, as_of)
     system = Text(visible(item.system.id))
     if item.system.assumed:
@@ -70,7 +97,9 @@ def ranked_table(result: TriageResult, top: int | None = None) -> Table:
     """The ranked table: one row per system, most urgent first."""
     table = Table(
         title=Text(f"Post-quantum triage of {visible(result.inventory.organization)}"),
-        caption=Text(f"as of {result.as_of.isoformat()}, profile {visible(result.profile.name)}"),
+        caption=Text(f"as of {result.as_of.isoformat()}, profile {visible(result.profile.name)}"
+                     + ("; dim: 10-90 % band (latest start-by, P range); ranked by the central value"
+                        if result.band is not None else "")),
         header_style="bold",
         box=box.SIMPLE_HEAD,
         expand=False,
