@@ -238,6 +238,10 @@ def finish_discovery(result: Any) -> None:
     text = result.text
     if result.written is None:
         sys.stdout.write(text)
+    from pqtriage.formats.text import visible
+
     for line in result.summary:
-        sys.stderr.write(line.rstrip("\n") + "\n")
+        # Paths, archive member names and aliases come from the inputs: no escape code may
+        # reach the terminal (control and bidi characters are shown as \x.. escapes).
+        sys.stderr.write(visible(line.rstrip("\n")) + "\n")
     raise typer.Exit(result.exit_code)

@@ -180,6 +180,9 @@ class CryptoUse:
     """Start of validity of the certificate this use rests on, when it comes from one."""
     not_after: dt.date | None = None
     """End of validity of the certificate this use rests on, when it comes from one."""
+    oid: str | None = None
+    """Object identifier the input gives for the algorithm (a CBOM's cryptoProperties.oid):
+    the catalog resolves it first, and a name that contradicts it makes the use unassessed."""
 
 
 @dataclass(frozen=True)

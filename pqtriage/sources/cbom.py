@@ -60,11 +60,13 @@ class _DuplicateKey(ValueError):
 
 
 def _pairs(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
-    out: dict[str, Any] = {}
-    for key, value in pairs:
-        if key in out:
-            raise _DuplicateKey(key)
-        out[key] = value
+    out = dict(pairs)  # built in C; only a duplicate key makes it shorter than the pairs
+    if len(out) != len(pairs):
+        seen: set[str] = set()
+        for key, _ in pairs:
+            if key in seen:
+                raise _DuplicateKey(key)
+            seen.add(key)
     return out
 
 
@@ -91,20 +93,25 @@ def load_json(text: str, path: str) -> Any:
 
 def asset_parts(component: dict[str, Any]) -> list[str]:
     """bom-refs an asset's cryptoProperties refer to (its algorithms, keys, suites)."""
-    crypto = mapping_of(component.get("cryptoProperties"))
+    crypto = component.get("cryptoProperties")
+    if not isinstance(crypto, dict):
+        return []
     found: list[str] = []
     for section, keys in _REF_FIELDS:
-        props = mapping_of(crypto.get(section))
-        found += [props[k] for k in keys if isinstance(props.get(k), str)]
-    protocol = mapping_of(crypto.get("protocolProperties"))
-    suites = protocol.get("cipherSuites")
-    for suite in suites if isinstance(suites, list) else []:
-        found += refs_of(mapping_of(suite).get("algorithms"))
-    for refs in mapping_of(protocol.get("ikev2TransformTypes")).values():
-        found += refs_of(refs)
-    found += refs_of(protocol.get("cryptoRefArray"))
+        props = crypto.get(section)
+        if isinstance(props, dict):
+            found += [props[k] for k in keys if isinstance(props.get(k), str)]
+    protocol = crypto.get("protocolProperties")
+    if isinstance(protocol, dict):
+        suites = protocol.get("cipherSuites")
+        for suite in suites if isinstance(suites, list) else []:
+            found += refs_of(mapping_of(suite).get("algorithms"))
+        for refs in mapping_of(protocol.get("ikev2TransformTypes")).values():
+            found += refs_of(refs)
+        found += refs_of(protocol.get("cryptoRefArray"))
     for section in ("certificateProperties", "relatedCryptoMaterialProperties", "protocolProperties"):
-        related = mapping_of(crypto.get(section)).get("relatedCryptographicAssets")  # CycloneDX 1.7
+        props = crypto.get(section)
+        related = props.get("relatedCryptographicAssets") if isinstance(props, dict) else None  # CycloneDX 1.7
         for item in related if isinstance(related, list) else []:
             if isinstance(mapping_of(item).get("ref"), str):
                 found.append(item["ref"])
@@ -125,6 +132,7 @@ class _BomReader:
         self.provides: dict[str, list[str]] = {}
         self.subject: str | None = None
         self.positions = Positions("")
+        self._parts: dict[str, list[str]] = {}
 
     def fail(self, where: str, message: str, ref: str | None = None, hint: str | None = None) -> InventoryError:
         line, column = self.positions.of(ref)
@@ -148,7 +156,7 @@ class _BomReader:
                                  " read as 1.6")
         metadata = mapping_of(doc.get("metadata"))
         if isinstance(metadata.get("component"), dict):
-            self.subject = self._collect(metadata["component"], "metadata.component", None)
+            self.subject = self._collect(metadata["component"], "metadata.component", None, None)
         for key in ("components", "services"):
             self._collect_list(doc.get(key), key, None)
         self._dependencies(doc.get("dependencies"))
@@ -170,26 +178,31 @@ class _BomReader:
         if not isinstance(value, list):
             raise self.fail(where, "must be a list", parent)
         for index, item in enumerate(value):
-            self._collect(item, f"{where}[{index}]", parent)
+            self._collect(item, where, index, parent)
 
-    def _collect(self, component: object, where: str, parent: str | None) -> str:
+    def _collect(self, component: object, where: str, index: int | None, parent: str | None) -> str:
+        def label() -> str:  # built only when needed: most components have a bom-ref and no children
+            return where if index is None else f"{where}[{index}]"
+
         if not isinstance(component, dict):
-            raise self.fail(where, "must be a JSON object", parent)
+            raise self.fail(label(), "must be a JSON object", parent)
         ref = component.get("bom-ref")
         if ref is not None and not text_of(ref):
-            raise self.fail(where, "bom-ref must be non-empty text", parent)
-        ref = ref or where
+            raise self.fail(label(), "bom-ref must be non-empty text", parent)
+        ref = ref or label()
         if ref in self.nodes or ref in self.crypto:
-            raise self.fail(where, f"duplicate bom-ref '{ref[:80]}'", ref, "bom-refs must be unique in a BOM")
+            raise self.fail(label(), f"duplicate bom-ref '{ref[:80]}'", ref, "bom-refs must be unique in a BOM")
         is_crypto = component.get("type") == "cryptographic-asset" or "cryptoProperties" in component
         (self.crypto if is_crypto else self.nodes)[ref] = component
         if is_crypto and not isinstance(component.get("cryptoProperties"), dict):
-            self.warnings.append(f"{self.path}: {where} is a cryptographic asset without cryptoProperties;"
+            self.warnings.append(f"{self.path}: {label()} is a cryptographic asset without cryptoProperties;"
                                  " read as an algorithm named by its name")
         if parent is not None:
             self.nested.setdefault(parent, []).append(ref)
-        self._collect_list(component.get("components"), f"{where}.components", ref)
-        self._collect_list(component.get("services"), f"{where}.services", ref)
+        if "components" in component:
+            self._collect_list(component["components"], f"{label()}.components", ref)
+        if "services" in component:
+            self._collect_list(component["services"], f"{label()}.services", ref)
         return ref
 
     def _dependencies(self, value: object) -> None:
@@ -201,9 +214,11 @@ class _BomReader:
             if not isinstance(entry, dict) or not text_of(entry.get("ref")):
                 raise self.fail(f"dependencies[{index}]", "must be an object with a 'ref'")
             for key, target in (("dependsOn", self.edges), ("provides", self.provides)):
-                if key in entry and not isinstance(entry[key], list):
+                if key not in entry:
+                    continue
+                if not isinstance(entry[key], list):
                     raise self.fail(f"dependencies[{index}].{key}", "must be a list of bom-refs")
-                target.setdefault(entry["ref"], []).extend(refs_of(entry.get(key)))
+                target.setdefault(entry["ref"], []).extend(refs_of(entry[key]))
 
     def _closure(self, start: list[str]) -> set[str]:
         """Crypto assets reached from these through refs and dependsOn between crypto assets."""
@@ -214,8 +229,11 @@ class _BomReader:
             if ref in seen:
                 continue
             seen.add(ref)
-            nxt = asset_parts(self.crypto[ref]) + self.edges.get(ref, []) + self.nested.get(ref, [])
-            queue.extend(r for r in nxt if r in self.crypto and r not in seen)
+            parts = self._parts.get(ref)
+            if parts is None:
+                parts = self._parts[ref] = asset_parts(self.crypto[ref])
+            for nxt in (parts, self.edges.get(ref, ()), self.nested.get(ref, ())):
+                queue.extend(r for r in nxt if r in self.crypto and r not in seen)
         return seen
 
     def _carriers(self) -> tuple[dict[str, list[str]], list[str]]:

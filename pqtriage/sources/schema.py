@@ -115,6 +115,8 @@ USE_FIELDS: tuple[FieldSpec, ...] = (
               "(YYYY-MM-DD)."),
     FieldSpec("not_after", "date", "End of validity of the certificate the use rests on "
               "(YYYY-MM-DD)."),
+    FieldSpec("oid", "str", "Object identifier of the algorithm (1.2.840.113549.1.1.11 ...), when the "
+              "source gives one: resolved first; a name that contradicts it is unassessed."),
 )
 
 DATA_CLASSIFICATION_FIELDS: tuple[FieldSpec, ...] = (

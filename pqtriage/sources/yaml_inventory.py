@@ -274,6 +274,7 @@ class _Reader:
             role=values.get("role", IN_USE),
             not_before=values.get("not_before"),
             not_after=values.get("not_after"),
+            oid=values.get("oid"),
         )
         if self.check is not None:
             for found in self.check(use):

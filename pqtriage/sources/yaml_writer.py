@@ -49,6 +49,7 @@ def _use(use: CryptoUse) -> dict[str, Any]:
         out["role"] = use.role
     _put(out, "not_before", use.not_before.isoformat() if use.not_before else None)
     _put(out, "not_after", use.not_after.isoformat() if use.not_after else None)
+    _put(out, "oid", use.oid)
     return out
 
 

@@ -27,6 +27,12 @@ ALGORITHMS = ("RSA-2048", "RSA-3072", "ECDSA P-256", "X25519", "ML-KEM-768", "ML
               "AES-256-GCM", "SHA-256", "3DES", "Kuznyechik", "TLS_AES_128_GCM_SHA256")
 """A mix of Shor-attackable, Grover-only, quantum-resistant, broken and unknown names."""
 
+PARAMETER_SETS = ("768", "65", "128", "2048", "SHA2-128s")
+OIDS = ("1.2.840.113549.1.1.11", "1.2.840.113549.1.1.5", "1.2.840.10045.2.1", "2.16.840.1.101.3.4.4.2",
+        "1.3.132.0.34", "2.16.840.1.101.3.4.1.6", "1.2.3.4.5")
+"""Known OIDs of several kinds (sha256WithRSAEncryption, sha1WithRSAEncryption, id-ecPublicKey,
+ML-KEM-768, secp384r1, AES-128-GCM) and one pqtriage does not know."""
+
 # Any text a person could type: no surrogates (not encodable), no NUL (refused by the reader).
 TEXT = st.text(st.characters(blacklist_categories=["Cs"], blacklist_characters="\x00"),
                min_size=1, max_size=24).filter(lambda s: s.strip() != "")
@@ -72,6 +78,8 @@ def uses(draw: st.DrawFn, text: st.SearchStrategy[str] = TEXT) -> CryptoUse:
         role=draw(st.sampled_from(USE_ROLES)),
         not_before=draw(st.none() | st.dates(dt.date(1970, 1, 1), dt.date(9999, 12, 31))),
         not_after=draw(st.none() | st.dates(dt.date(1970, 1, 1), dt.date(9999, 12, 31))),
+        parameter_set=draw(st.none() | st.sampled_from(PARAMETER_SETS) | TEXT),
+        oid=draw(st.none() | st.sampled_from(OIDS)),
     )
 
 

@@ -44,6 +44,7 @@ def use_dict(item: UseAssessment) -> dict[str, Any]:
         "trust_years": item.use.trust_years,
         "not_before": item.use.not_before.isoformat() if item.use.not_before else None,
         "not_after": item.use.not_after.isoformat() if item.use.not_after else None,
+        "oid": item.use.oid,
         "protocol": item.use.protocol,
         "protocol_version": item.use.protocol_version,
         "key_storage": _enum(item.use.key_storage),

@@ -43,6 +43,8 @@ class CommandResult:
     """0 when everything was read or reached, 1 otherwise."""
     written: str | None = None
     """Path the inventory was written to, if any."""
+    scan_summary: dict[str, Any] | None = None
+    """Per-finder counts and the files not understood (scan only), as plain data for JSON."""
 
 
 def check_format(output_format: str) -> None:
