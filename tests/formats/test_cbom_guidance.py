@@ -76,7 +76,7 @@ def test_read_back_by_the_import(tmp_path: Path) -> None:
     assert fare.frameworks == ("eu",) and ("cost_centre", "CC-104") in fare.extra
     assert (fare.fips_140_certificate, fare.fips_140_level, fare.key_storage) == ("4282", "fips140-3-l3", KeyStorage.HSM)
     kex, sig = fare.uses
-    assert (sig.algorithm, sig.curve, sig.key_storage, sig.fips_140_level) == ("ECDSA P-256", "P-256", KeyStorage.HSM,
+    assert (sig.algorithm, sig.curve, sig.key_storage, sig.fips_140_level) == ("ECDSA", "P-256", KeyStorage.HSM,
                                                                             "fips140-3-l3")
     assert sig.purpose.value == "signature" and len(fare.uses) == 2
     assert depot.uses[0].key_storage is KeyStorage.SOFTWARE and depot.uses[0].crypto_library == "mbed TLS 2.28"

@@ -166,9 +166,9 @@ def _use_components(system: System, item: UseAssessment, ref: str,
         if use.key_storage is None:
             return [_algorithm_asset(ref, spec, name, parameter, use.curve, properties, use.oid, certification)], []
         # Where the key is kept is a key's securedBy: the key asset carries the use, its
-        # algorithmRef the algorithm (whose purpose and trust years the import reads).
+        # algorithmRef the algorithm; both carry the use's facts (the import reads the algorithm's).
         algorithm_ref = f"{ref}.alg"
-        inner = _properties([("purpose", use.purpose.value), ("trust_years", use.trust_years)])
+        inner = properties
         key = key_asset(ref, algorithm_ref, use, name)
         key["properties"] = properties
         return [key, _algorithm_asset(algorithm_ref, spec, name, parameter, use.curve, inner, use.oid, certification)], []
