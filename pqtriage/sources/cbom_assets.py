@@ -253,7 +253,7 @@ class UseBuilder:
         name, composed = compose_name(written, props)
         parameter_set = text_of(props.get("parameterSetIdentifier"))
         key_size = context.key_size
-        if key_size is None and parameter_set and parameter_set.isdigit() and len(parameter_set) < 6:
+        if key_size is None and parameter_set and parameter_set.isascii() and parameter_set.isdigit() and len(parameter_set) < 6:
             key_size = int(parameter_set)
         curve = text_of(props.get("curve")) or text_of(props.get("ellipticCurve")) or context.curve
         size_note = None
@@ -471,7 +471,7 @@ def exact_facts(use: CryptoUse, component: dict[str, Any]) -> CryptoUse:
             changes[name] = text[name] or None
     if "pqtriage:key_size" in own:
         size = text["key_size"] or ""
-        changes["key_size"] = int(size) if size.isdigit() and len(size) < 7 else None
+        changes["key_size"] = int(size) if size.isascii() and size.isdigit() and len(size) < 7 else None
     if text["purpose"] in {p.value for p in Purpose}:
         changes["purpose"] = Purpose(text["purpose"])
     if _number(text["trust_years"]) is not None:

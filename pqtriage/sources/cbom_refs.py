@@ -36,7 +36,7 @@ def _size(value: object) -> int | None:
         return None
     if isinstance(value, int):
         return value if 0 < value <= 65536 else None
-    if isinstance(value, str) and value.strip().isdigit() and len(value.strip()) < 6:
+    if isinstance(value, str) and value.strip().isascii() and value.strip().isdigit() and len(value.strip()) < 6:
         return int(value)
     return None
 

@@ -268,3 +268,23 @@ def test_duplicate_bom_ref_is_refused_at_its_line(tmp_path: Path) -> None:
         load_inventory(_write(tmp_path, text))
     assert "duplicate bom-ref 'alg-rsa'" in caught.value.diagnostics()
     assert f"scan.cdx.json:{line_of_bom_ref(text, 'alg-rsa')}:" in caught.value.diagnostics()
+
+
+
+def test_non_ascii_digits_in_a_size_are_not_read_as_numbers() -> None:
+    """str.isdigit() is true for superscripts such as '¹', which int() refuses: a size written
+    that way stays text (the use is unassessed), never a crash. Found by the CBOM round-trip
+    property test (tests/formats/test_cbom_roundtrip.py)."""
+    bom = {
+        "bomFormat": "CycloneDX", "specVersion": "1.6", "version": 1,
+        "metadata": {"component": {"type": "application", "bom-ref": "app", "name": "app"}},
+        "components": [{
+            "type": "cryptographic-asset", "bom-ref": "k", "name": "RSA",
+            "cryptoProperties": {"assetType": "algorithm",
+                                 "algorithmProperties": {"parameterSetIdentifier": "\u00b9"}},
+        }],
+        "dependencies": [{"ref": "app", "dependsOn": ["k"]}],
+    }
+    inventory = CycloneDxSource().parse(json.dumps(bom), "bom.json")
+    uses = [u for s in inventory.systems for u in s.uses]
+    assert [u.key_size for u in uses] == [None]

@@ -209,7 +209,7 @@ class _File:
                 return None
         if node.type == "preproc_arg":
             text = _text(node).strip()
-            return int(text) if text.isdigit() else _unquote(text) if text[:1] == '"' else None
+            return int(text) if text.isascii() and text.isdigit() else _unquote(text) if text[:1] == '"' else None
         if follow and node.type in ("identifier", "field_identifier"):
             return self.constants.get(_text(node))
         return None
