@@ -71,7 +71,8 @@ def main(argv: Optional[list[str]] = None) -> int:
     except PqtriageError as exc:
         if debug:
             raise
-        sys.stderr.write(f"pqtriage: error: {exc.diagnostics()}\n")
+        for line in exc.diagnostic_lines():
+            sys.stderr.write(f"pqtriage: error: {line}\n")
         return exc.exit_code
     except typer.Abort:
         sys.stderr.write("pqtriage: aborted\n")

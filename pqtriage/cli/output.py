@@ -38,8 +38,8 @@ def _sync_folder(folder: Path) -> None:
         os.close(descriptor)
 
 
-def write_atomic(path: str | Path, text: str) -> None:
-    """Write text to path so a reader sees the old file or the new one, never a partial one."""
+def write_atomic(path: str | Path, text: str | bytes) -> None:
+    """Write text (or bytes) to path so a reader sees the old file or the new one, never a partial one."""
     target = Path(path)
     folder = target.parent if str(target.parent) else Path(".")
     try:
@@ -49,10 +49,16 @@ def write_atomic(path: str | Path, text: str) -> None:
                           hint="check that the folder exists and is writable") from exc
     try:
         os.fchmod(handle, _mode_for(target))  # mkstemp makes 0600; keep what a plain write would give
-        with os.fdopen(handle, "w", encoding="utf-8", newline="\n") as stream:
-            stream.write(text)
-            stream.flush()
-            os.fsync(stream.fileno())
+        if isinstance(text, bytes):
+            with os.fdopen(handle, "wb") as binary:
+                binary.write(text)
+                binary.flush()
+                os.fsync(binary.fileno())
+        else:
+            with os.fdopen(handle, "w", encoding="utf-8", newline="\n") as stream:
+                stream.write(text)
+                stream.flush()
+                os.fsync(stream.fileno())
         os.replace(temp, target)
         _sync_folder(folder)
     except OSError as exc:

@@ -13,6 +13,7 @@ import typer
 
 from pqtriage.cli.common import (
     CAPACITY_HELP,
+    COLUMNS_HELP,
     HARDWARE_HELP,
     POLICY_HELP,
     PlanFormat,
@@ -105,6 +106,7 @@ def plan(
     as_of: Optional[str] = typer.Option(None, "--as-of", help="Date treated as today (YYYY-MM-DD)."),
     sensitivity: bool = typer.Option(False, "--sensitivity", help="Also show which systems change verdict if the CRQC moves -5..+5 years."),
     cbom_defaults: Optional[str] = typer.Option(None, "--cbom-defaults", help="For a CycloneDX input: YAML side file with values a CBOM cannot carry."),
+    columns: Optional[str] = typer.Option(None, "--columns", help=COLUMNS_HELP),
     hardware: Optional[str] = typer.Option(None, "--hardware", help=HARDWARE_HELP),
 ) -> None:
     """Plan the migration: deadlines per system, schedule under capacity, critical path."""
@@ -113,7 +115,7 @@ def plan(
     from pqtriage.cli.output import write_atomic
     from pqtriage.pipeline import parse_as_of, prepare
 
-    run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults, hardware)
+    run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults, hardware, columns)
     the_plan = run.plan(tuple(policy or ()), capacity)
     if output_format == PlanFormat.table:
         from pqtriage.formats.table.plan import plan_view

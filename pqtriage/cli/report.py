@@ -2,22 +2,28 @@
 
 from __future__ import annotations
 
-from typing import List, Optional
+from typing import Any, List, Optional
 
 import typer
 
 from pqtriage.cli.common import (
     AS_OF_HELP,
     CBOM_DEFAULTS_HELP,
+    COLUMNS_HELP,
+    GROUP_BY_HELP,
     HARDWARE_HELP,
     PROFILE_HELP,
+    TOP_HELP,
+    WHERE_HELP,
     VerdictChoice,
     chart_path_for,
     console,
     emit,
     fail_code,
     to_file,
+    view_of,
 )
+from pqtriage.errors import UsageError
 
 
 def report_command(
@@ -30,8 +36,14 @@ def report_command(
     fail_on: Optional[VerdictChoice] = typer.Option(None, "--fail-on", help="Exit 1 if any system is at or above this verdict."),
     cbom_defaults: Optional[str] = typer.Option(None, "--cbom-defaults", help=CBOM_DEFAULTS_HELP),
     hardware: Optional[str] = typer.Option(None, "--hardware", help=HARDWARE_HELP),
+    columns: Optional[str] = typer.Option(None, "--columns", help=COLUMNS_HELP),
+    where: Optional[str] = typer.Option(None, "--where", help=WHERE_HELP),
+    top: Optional[int] = typer.Option(None, "--top", min=1, help=TOP_HELP),
+    group_by: Optional[str] = typer.Option(None, "--group-by", help=GROUP_BY_HELP),
+    by: Optional[str] = typer.Option(None, "--by", help="Write one action list per owner (or business_unit, or another grouping field): with -o, a folder of Markdown files and an index."),
 ) -> None:
-    """Write the Markdown report for the compliance file (ranking, plan, sensitivity)."""
+    """Write the Markdown report for the compliance file (ranking, plan, sensitivity); with --by,
+    one action list per owner or business unit."""
     from pathlib import Path
 
     from pqtriage.formats.markdown.plan import plan_section
@@ -41,8 +53,15 @@ def report_command(
     from pqtriage.formats.table.summary import summary_block
     from pqtriage.pipeline import parse_as_of, prepare
 
-    run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults, hardware)
-    result = run.result
+    run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults, hardware, columns)
+    if by is not None:
+        if group_by is not None:
+            raise UsageError("--by and --group-by both group the report", hint="give one of them")
+        result = view_of(run.result, where, top, by, "markdown")
+        write_action_lists(result, output)
+        console(stderr=True).print(summary_block(result))
+        raise typer.Exit(fail_code(result, fail_on))
+    result = view_of(run.result, where, top, group_by, "markdown")
     the_plan = run.plan(tuple(policy or ()), capacity)
     chart = chart_path_for(output) if to_file(output) and output else None
     sections = [
@@ -56,3 +75,38 @@ def report_command(
     emit(render_report(result, sections), output)
     console(stderr=True).print(summary_block(result))
     raise typer.Exit(fail_code(result, fail_on))
+
+
+def write_action_lists(result: Any, output: Optional[str]) -> None:
+    """One Markdown action list per group; with -o DIR one file each plus index.md, else stdout."""
+    from pqtriage.formats.markdown.actions import action_index, action_lists
+
+    field = result.selection.group_by
+    lists = action_lists(result, field)
+    if not to_file(output):
+        emit("\n\n".join(text for _, _, text in lists), output)
+        return
+    import re
+    from pathlib import Path
+
+    from pqtriage.cli.output import write_atomic
+
+    folder = Path(str(output))
+    try:
+        folder.mkdir(parents=True, exist_ok=True)
+    except OSError as exc:
+        raise UsageError(f"cannot create the folder {output} ({exc.strerror})",
+                         hint="with --by, -o names a folder for the action lists") from exc
+    taken: set[str] = {"index"}
+    files = []
+    for label, count, text in lists:
+        base = re.sub(r"[^a-z0-9]+", "-", label.lower()).strip("-")[:60] or "list"
+        name, number = base, 2
+        while name in taken:
+            name, number = f"{base}-{number}", number + 1
+        taken.add(name)
+        write_atomic(folder / f"{name}.md", text)
+        files.append((label, f"{name}.md", count))
+    write_atomic(folder / "index.md", action_index(result, field, files))
+    console(stderr=True).print(f"wrote {len(files)} action lists and index.md to {output}", markup=False)
+

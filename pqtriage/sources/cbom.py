@@ -24,6 +24,7 @@ from __future__ import annotations
 import json
 import re
 from collections import deque
+from dataclasses import replace
 from typing import Any
 
 from pqtriage.errors import InventoryError, Place
@@ -36,6 +37,7 @@ from pqtriage.sources.cbom_assets import (
     refs_of,
     text_of,
 )
+from pqtriage.sources.cbom_fields import apply_system_fields, use_fields
 from pqtriage.sources.cbom_side import (
     BUILTIN_DEFAULTS,
     SIDE_SYSTEM_FIELDS,
@@ -271,10 +273,11 @@ class _BomReader:
         depends = self._system_edges(ordered)
         systems = []
         for ref in ordered:
-            uses = [u for c in carriers.get(ref, []) for u in builder.uses_of(c)]
+            uses = [self._use_fields(u, c) for c in carriers.get(ref, []) for u in builder.uses_of(c)]
             systems.append(self._system(ref, self.nodes[ref], uses, depends.get(ref, ())))
         for ref in orphans:
-            systems.append(self._system(ref, self.crypto[ref], builder.uses_of(ref), ()))
+            uses = [self._use_fields(u, ref) for u in builder.uses_of(ref)]
+            systems.append(self._system(ref, self.crypto[ref], uses, ()))
         self.warnings.extend(builder.warnings)
         assumed = [s.id for s in systems if {"shelf_life_years", "migration_years"} & set(s.assumed)]
         if assumed:
@@ -307,6 +310,11 @@ class _BomReader:
                                  f" dropped '{last}' depends on '{first}'")
         return graph
 
+    def _use_fields(self, use: CryptoUse, carrier: str) -> CryptoUse:
+        """The guidance fields of a use (docs/interop.md; pqtriage.sources.cbom_fields)."""
+        changes = use_fields(self.crypto.get(carrier, {}), self.crypto)
+        return replace(use, **changes) if changes else use
+
     def _system(self, ref: str, component: dict[str, Any], uses: list[CryptoUse],
                 depends: tuple[str, ...]) -> System:
         name = text_of(component.get("name")) or ref
@@ -314,7 +322,7 @@ class _BomReader:
             name = f"{name} {component['version']}"
         values, assumed = self._values(ref, text_of(component.get("name")) or ref, component)
         line, column = self.positions.of(ref if "bom-ref" in component else None)
-        return System(
+        system = System(
             id=ref, name=values.get("name", name), shelf_life_years=float(values["shelf_life_years"]),
             migration_years=float(values["migration_years"]), uses=tuple(uses), depends_on=depends,
             owner=values.get("owner"),
@@ -326,6 +334,8 @@ class _BomReader:
             vendor_readiness=values.get("vendor_readiness"),
             source=SourceRef(self.path, line, column, f"bom-ref {ref}"), assumed=tuple(assumed),
         )
+        side = self.side.for_system(ref, text_of(component.get("name")) or ref) or {}
+        return apply_system_fields(system, component, side, self.warnings)
 
     def _values(self, ref: str, name: str, component: dict[str, Any]) -> tuple[dict[str, Any], list[str]]:
         side = self.side.for_system(ref, name) or {}

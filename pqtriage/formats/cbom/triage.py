@@ -35,6 +35,13 @@ from pqtriage.catalog.spec import AlgorithmSpec
 from pqtriage.formats.interface import ResultFormat
 from pqtriage.model.inventory import IN_USE, CryptoUse, System
 from pqtriage.model.verdict import SystemAssessment, TriageResult, UseAssessment
+from pqtriage.sources.cbom_fields import (
+    certification_level,
+    key_asset,
+    system_component_fields,
+    system_properties,
+    use_properties,
+)
 
 SPEC_VERSION = "1.6"
 SCHEMA_URL = "http://cyclonedx.org/schema/bom-1.6.schema.json"
@@ -84,12 +91,15 @@ def _levels(spec: AlgorithmSpec | None) -> dict[str, Any]:
 
 
 def _algorithm_asset(ref: str, spec: AlgorithmSpec | None, name: str, parameter: str | None,
-                     curve: str | None, properties: list[dict[str, str]], oid: str | None = None) -> dict[str, Any]:
+                     curve: str | None, properties: list[dict[str, str]], oid: str | None = None,
+                     certification: list[str] | None = None) -> dict[str, Any]:
     algorithm = _levels(spec)
     if parameter:
         algorithm["parameterSetIdentifier"] = parameter
     if curve:
         algorithm["curve"] = curve
+    if certification:
+        algorithm["certificationLevel"] = certification
     crypto: dict[str, Any] = {"assetType": "algorithm", "algorithmProperties": algorithm}
     oid = oid or (spec.identifiers.get("oid") if spec is not None else None)
     if oid:
@@ -141,6 +151,7 @@ def _use_properties(system: System, item: UseAssessment) -> list[dict[str, str]]
         ("quantum_attack", spec.quantum_attack if spec else None),
         ("deciding_component", item.deciding.name if item.deciding else None),
         ("assumed", ",".join(item.use.assumed)),
+        *use_properties(item.use),
     ])
 
 
@@ -149,9 +160,18 @@ def _use_components(system: System, item: UseAssessment, ref: str,
     use, spec = item.use, item.spec
     parameter = use.parameter_set or (str(use.key_size) if use.key_size else None)
     properties = _use_properties(system, item)
+    certification = certification_level(use, system)
     if spec is None or spec.primitive != "cipher-suite" or not spec.components:
         name = spec.name if spec else use.algorithm
-        return [_algorithm_asset(ref, spec, name, parameter, use.curve, properties, use.oid)], []
+        if use.key_storage is None:
+            return [_algorithm_asset(ref, spec, name, parameter, use.curve, properties, use.oid, certification)], []
+        # Where the key is kept is a key's securedBy: the key asset carries the use, its
+        # algorithmRef the algorithm; both carry the use's facts (the import reads the algorithm's).
+        algorithm_ref = f"{ref}.alg"
+        inner = properties
+        key = key_asset(ref, algorithm_ref, use, name)
+        key["properties"] = properties
+        return [key, _algorithm_asset(algorithm_ref, spec, name, parameter, use.curve, inner, use.oid, certification)], []
     parts, refs = [], []
     for index, component in enumerate(spec.components, start=1):
         part_ref = refs_of.claim(f"{ref}.{index}")
@@ -164,7 +184,9 @@ def _use_components(system: System, item: UseAssessment, ref: str,
     label = (use.protocol or "").split()
     protocol: dict[str, Any] = {"type": _PROTOCOL_TYPE.get(label[0].lower(), "other") if label else (
         "tls" if spec.name.startswith("TLS_") else "other")}
-    if len(label) > 1:
+    if use.protocol_version:
+        protocol["version"] = use.protocol_version
+    elif len(label) > 1:
         protocol["version"] = label[1]
     protocol["cipherSuites"] = [{"name": spec.name, "algorithms": refs}]
     suite = {"type": "cryptographic-asset", "bom-ref": ref, "name": use.protocol or spec.name,
@@ -176,6 +198,7 @@ def _use_components(system: System, item: UseAssessment, ref: str,
 def _system_component(item: SystemAssessment) -> dict[str, Any]:
     system = item.system
     component: dict[str, Any] = {"type": "application", "bom-ref": system.id, "name": system.name}
+    component.update(system_component_fields(system))
     if system.description:
         component["description"] = system.description
     component["properties"] = _properties([
@@ -188,6 +211,9 @@ def _system_component(item: SystemAssessment) -> dict[str, Any]:
         ("owner", system.owner), ("policy_category", system.policy_category),
         ("vendor_readiness", system.vendor_readiness), ("effort_person_weeks", system.effort_person_weeks),
         ("notes", system.notes), ("assumed", ",".join(system.assumed)),
+        # The import appends a component's version to its name: the exact name, when it has one.
+        ("name", system.name if system.version else None),
+        *system_properties(system),
     ])
     return component
 
@@ -220,6 +246,7 @@ def cbom_dict(result: TriageResult) -> dict[str, Any]:
             ("organization", result.inventory.organization), ("as_of", result.as_of.isoformat()),
             ("profile", result.profile.name), ("risk_tolerance", result.profile.risk_tolerance),
             ("inventory_sha256", result.inventory.source_sha256),
+            ("view", result.selection.describe() if result.selection else None),
         ] + [(f"count:{verdict.value}", n) for verdict, n in summary.counts.items()]),
     }
     body: dict[str, Any] = {"$schema": SCHEMA_URL, "bomFormat": "CycloneDX", "specVersion": SPEC_VERSION,

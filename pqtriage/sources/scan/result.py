@@ -13,9 +13,8 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
-import yaml
-
 from pqtriage.errors import EXIT_FINDINGS, EXIT_OK, InventoryError, Place, UsageError
+from pqtriage.sources.roundtrip import dump_round_trip, is_round_trip
 from pqtriage.sources.scan.emit import (
     ASSUMED_SYSTEM_FIELDS,
     DEFAULT_EXPOSURE,
@@ -60,26 +59,27 @@ def check_years(shelf_life_years: float, migration_years: float) -> None:
         raise UsageError("shelf-life and migration years must not be negative")
 
 
-def load_existing(merge: str) -> Any:
-    """The inventory given to --merge, as plain YAML data (an empty file is an empty inventory)."""
+def load_existing_text(merge: str) -> tuple[Any, str]:
+    """The inventory given to --merge with its comments and layout (an empty file is an empty
+    inventory), and its text; refused like any inventory if it is hostile."""
+    from pqtriage.sources.interface import read_inventory_text
+    from pqtriage.sources.roundtrip import load_round_trip
+
     try:
-        with open(merge, encoding="utf-8") as stream:
-            document = yaml.safe_load(stream)
-    except OSError as error:
-        raise InventoryError(
-            f"cannot read the inventory to merge into ({error.strerror})",
-            place=Place(merge),
-            hint="check the path given to --merge",
-        ) from error
-    except yaml.YAMLError as error:
-        mark = getattr(error, "problem_mark", None)
-        place = Place(merge, mark.line + 1, mark.column + 1) if mark else Place(merge)
-        raise InventoryError(
-            "the inventory to merge into is not valid YAML", place=place
-        ) from error
+        text, _ = read_inventory_text(merge)
+    except InventoryError as error:
+        raise InventoryError(f"cannot read the inventory to merge into: {error.message}",
+                             place=error.place or Place(merge),
+                             hint=error.hint or "check the path given to --merge") from error
+    document = load_round_trip(text, merge)
     if document is None:
         document = {"version": 1, "organization": DEFAULT_ORGANIZATION, "systems": []}
-    return document
+    return document, text
+
+
+def load_existing(merge: str) -> Any:
+    """The inventory given to --merge, as YAML data keeping its comments and layout."""
+    return load_existing_text(merge)[0]
 
 
 def assumed_line(systems: int, shelf_life: float, migration: float) -> str:
@@ -136,7 +136,12 @@ def finish_inventory(
     if private:
         summary.append(f"{private} private keys in plain files (type and size recorded only)")
     if merge is not None:
-        document, report = merge_inventory(load_existing(merge), document, in_scope)
+        existing, original = load_existing_text(merge)
+        document, report = merge_inventory(existing, document, in_scope)
         summary.extend(report.lines())
+        if output_format == "yaml" and is_round_trip(document):
+            # Comments, key order, flow or block style and blank lines of the file are kept.
+            text = dump_round_trip(document, original)
+            return CommandResult(text, summary, EXIT_FINDINGS if failed else EXIT_OK)
     text = render(document, output_format)
     return CommandResult(text, summary, EXIT_FINDINGS if failed else EXIT_OK)
