@@ -49,6 +49,9 @@ class Run:
     """Exit status."""
     stderr: str
     """Last part of the child's standard error (for diagnosing a failed run)."""
+    cpu_seconds: float = 0.0
+    """CPU time of the child, user plus system (getrusage via wait4): other load on the
+    machine does not inflate it the way it inflates wall-clock time."""
 
 
 def run_child(argv: list[str], timeout: float = 600.0) -> Run:
@@ -72,7 +75,8 @@ def run_child(argv: list[str], timeout: float = 600.0) -> Run:
         err.seek(0)
         tail = err.read()[-2000:].decode("utf-8", "replace")
     # ru_maxrss is in KiB on Linux.
-    return Run(seconds, int(usage.ru_maxrss) * 1024, child.returncode, tail)
+    return Run(seconds, int(usage.ru_maxrss) * 1024, child.returncode, tail,
+               usage.ru_utime + usage.ru_stime)
 
 
 def best_of(argv: list[str], repeat: int, timeout: float = 600.0) -> Run:
@@ -82,7 +86,8 @@ def best_of(argv: list[str], repeat: int, timeout: float = 600.0) -> Run:
         if run.returncode not in (0, 1):
             raise RuntimeError(f"{' '.join(argv)} exited {run.returncode}: {run.stderr.strip()}")
     fastest = min(runs, key=lambda r: r.seconds)
-    return Run(fastest.seconds, max(r.peak_rss_bytes for r in runs), fastest.returncode, fastest.stderr)
+    return Run(fastest.seconds, max(r.peak_rss_bytes for r in runs), fastest.returncode, fastest.stderr,
+               min(r.cpu_seconds for r in runs))
 
 
 def median_seconds(argv: list[str], repeat: int) -> float:

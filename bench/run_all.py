@@ -18,14 +18,17 @@ sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
 from bench.common import ROOT, child_env, machine_info
 
-SCRIPTS = ("bench_triage.py", "bench_band.py", "bench_report.py", "bench_scan.py", "bench_cold_start.py",
-           "bench_probe.py", "bench_scheduler.py")
+SCRIPTS = ("bench_triage.py", "bench_band.py", "bench_csv.py", "bench_report.py", "bench_scan.py",
+           "bench_mixed_scan.py", "bench_cold_start.py", "bench_probe.py", "bench_cbom.py",
+           "bench_scheduler.py")
 """One script per figure, in the order of the issue."""
 
 FIXES = {
     "Triage to JSON": "look at the top cumulative entries: YAML composition is the floor's own cost; "
                       "anything above it in pqtriage (conversion to positioned nodes, evaluation, JSON "
                       "encoding) is ours to cache or batch",
+    "CSV triage": "the rows become positioned nodes and go through the YAML validator; a reader that "
+                  "validates cells directly would skip building the nodes",
     "Triage with the uncertainty band": "the band itself is cheap (memoised per algorithm, x and y, "
                                         "vectorised with numpy); the rest is the inventory reader and the "
                                         "indented JSON encoder, both above the event-stream floor on their own",
@@ -34,10 +37,18 @@ FIXES = {
                         "extensions, two findings) and writing the inventory; a faster path would "
                         "read names and extensions lazily only for what the output needs, and write "
                         "JSON without indentation (the indented encoder is pure Python)",
+    "Mixed scan": "the time is per use, not per file: a configuration enables tens of suites or "
+                  "default algorithms, each a use with its source, notes and JSON line. Fewer, "
+                  "grouped uses per directive (one use per distinct decomposition), or building "
+                  "the inventory straight from the findings without the intermediate dicts, would "
+                  "bring the per-use cost down; most of the finders' share is making one finding per use",
     "Cold start": "move the imports named above from module level into the commands that use them",
     "Scheduler on chains": "look for a step that visits every quarter or every waiting system; the "
                            "scheduler must stay event-driven (pqtriage/plan/scheduler.py)",
     "TLS probe concurrency": "raise the worker count or make the probe's timeouts per connection, not global",
+    "CBOM triage": "read the BOM in one pass that builds the uses while it parses (a streaming reader "
+                   "in C, such as orjson with a small graph pass), and make the per-use triage objects "
+                   "cheaper (uses that share algorithm, purpose, x and y could share one evaluation)",
 }
 """What would fix a miss, per figure (written beside its profile)."""
 

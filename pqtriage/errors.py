@@ -16,6 +16,15 @@ EXIT_BAD_INPUT = 2
 EXIT_INTERNAL = 3
 
 
+def column_letters(column: int) -> str:
+    """A 1-based column number as spreadsheet letters: 1 -> A, 27 -> AA."""
+    letters = ""
+    while column > 0:
+        column, rest = divmod(column - 1, 26)
+        letters = chr(ord("A") + rest) + letters
+    return letters
+
+
 @dataclass(frozen=True)
 class Place:
     """Where in an input a problem sits."""
@@ -23,17 +32,51 @@ class Place:
     file: str
     """Path of the input file as the user named it."""
     line: int | None = None
-    """1-based line number, when known."""
+    """1-based line number (a workbook's row), when known."""
     column: int | None = None
     """1-based column number, when known."""
+    sheet: str | None = None
+    """Worksheet name, for a workbook: the place is then written ``file:Sheet!D14``."""
 
     def __str__(self) -> str:
         text = self.file
+        if self.sheet is not None:
+            # The spreadsheet's own cell notation; a sheet name with spaces or quotes is quoted.
+            sheet = self.sheet
+            if not sheet.replace("_", "").isalnum():
+                sheet = "'" + sheet.replace("'", "''") + "'"
+            text += f":{sheet}!"
+            if self.line is not None:
+                text += (column_letters(self.column) if self.column else "") + str(self.line)
+            return text.rstrip("!")
         if self.line is not None:
             text += f":{self.line}"
             if self.column is not None:
                 text += f":{self.column}"
         return text
+
+    def order(self) -> tuple[str, int, int]:
+        """Sort key: file, then line (row), then column."""
+        return (self.file, self.line or 0, self.column or 0)
+
+
+@dataclass(frozen=True)
+class Problem:
+    """One problem found in an input: collected with the others, reported together."""
+
+    place: Place
+    """Where it sits."""
+    message: str
+    """What is wrong."""
+    hint: str | None = None
+    """What to do about it."""
+
+    def line(self) -> str:
+        """One line: place, what is wrong, what to do."""
+        text = f"{self.place}: {self.message}"
+        if self.hint:
+            text += f"; {self.hint}"
+        return " ".join(text.split())
 
 
 class PqtriageError(Exception):
@@ -54,6 +97,10 @@ class PqtriageError(Exception):
             text += f"; {self.hint}"
         # One line, always: inputs may smuggle newlines into messages.
         return " ".join(text.split())
+
+    def diagnostic_lines(self) -> list[str]:
+        """Every line to show the user (one, unless several problems were collected)."""
+        return [self.diagnostics()]
 
     def __str__(self) -> str:
         return self.diagnostics()
@@ -90,6 +137,24 @@ def chain_text(ids: list[str], closed: bool = False, shown: int = 3) -> str:
 
 class InventoryError(PqtriageError):
     """The inventory file cannot be read or does not follow the format."""
+
+
+class InventoryProblems(InventoryError):
+    """Several problems in one inventory, collected before stopping, sorted by position."""
+
+    def __init__(self, problems: list[Problem]):
+        ordered = sorted(problems, key=lambda p: p.place.order())
+        first = ordered[0]
+        super().__init__(first.message, place=first.place, hint=first.hint)
+        self.problems = ordered
+
+    def diagnostic_lines(self) -> list[str]:
+        """One line per problem, then a count when there is more than one."""
+        lines = [problem.line() for problem in self.problems]
+        if len(lines) > 1:
+            files = sorted({p.place.file for p in self.problems})
+            lines.append(f"{len(lines)} problems in {', '.join(files)}; nothing was triaged")
+        return lines
 
 
 class ProfileError(PqtriageError):

@@ -35,11 +35,13 @@ class _DuplicateKey(ValueError):
 
 
 def _pairs(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
-    out: dict[str, Any] = {}
-    for key, value in pairs:
-        if key in out:
-            raise _DuplicateKey(key)
-        out[key] = value
+    out = dict(pairs)  # built in C; only a duplicate key makes it shorter than the pairs
+    if len(out) != len(pairs):
+        seen: set[str] = set()
+        for key, _ in pairs:
+            if key in seen:
+                raise _DuplicateKey(key)
+            seen.add(key)
     return out
 
 

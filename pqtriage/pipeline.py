@@ -87,9 +87,10 @@ def band_for(profile: ThreatProfile, arrival: ArrivalModel, hardware: Any) -> An
 def run_triage(
     inventory_path: str, profile_name: str | None, as_of: dt.date, cbom_defaults: str | None = None,
     hardware_path: str | None = None,
+    columns: str | None = None,
 ) -> TriageResult:
     """Load the inventory, profile and hardware file, then triage."""
-    return prepare(inventory_path, profile_name, as_of, cbom_defaults, hardware_path).result
+    return prepare(inventory_path, profile_name, as_of, cbom_defaults, hardware_path, columns).result
 
 
 @dataclass(frozen=True)
@@ -123,20 +124,49 @@ class TriageRun:
                           parse_capacity(capacity), DEFAULT_SETTINGS)
 
 
-def load_any(inventory_path: str, cbom_defaults: str | None = None) -> Any:
-    """Read a YAML inventory or a CycloneDX CBOM (with its side file of shelf-life and migration time)."""
+def use_check(catalog: Any) -> Any:
+    """The check every inventory read for triage goes through: algorithm and curve names
+    one or two keystrokes from a known one are errors; unknown names far from any are warnings."""
+    from pqtriage.catalog.typos import name_problem
+    from pqtriage.sources.interface import FieldProblem
+
+    found: dict[tuple[Any, ...], list[FieldProblem]] = {}
+
+    def check(use: Any) -> list[FieldProblem]:
+        key = (use.algorithm, use.key_size, use.curve, use.parameter_set, use.purpose.value)
+        known = found.get(key)
+        if known is None:
+            resolution = catalog.resolve(use.algorithm, key_size=use.key_size, curve=use.curve,
+                                         parameter_set=use.parameter_set, purpose=use.purpose.value)
+            problem = name_problem(resolution, use.algorithm, use.curve)
+            known = [] if problem is None else [
+                FieldProblem(problem.field, problem.message, problem.hint, problem.error)]
+            found[key] = known
+        return known
+
+    return check
+
+
+def load_any(inventory_path: str, cbom_defaults: str | None = None, columns: str | None = None,
+             catalog: Any = None) -> Any:
+    """Read an inventory in any format: YAML, CSV, a workbook (with ``--columns``), or a
+    CycloneDX CBOM (with its side file of shelf-life and migration time).
+
+    With a catalog, algorithm and curve names are checked too (see :func:`use_check`), and
+    every problem is reported together.
+    """
+    from pqtriage.sources.loading import load_inventory, load_inventory_with_side_file
+
+    check = use_check(catalog) if catalog is not None else None
     if cbom_defaults is None:
-        from pqtriage.sources.loading import load_inventory
-
-        return load_inventory(inventory_path)
-    from pqtriage.sources.loading import load_inventory_with_side_file
-
-    return load_inventory_with_side_file(inventory_path, cbom_defaults)
+        return load_inventory(inventory_path, check=check, columns=columns)
+    return load_inventory_with_side_file(inventory_path, cbom_defaults, check=check)
 
 
 def prepare(
     inventory_path: str, profile_name: str | None, as_of: dt.date, cbom_defaults: str | None = None,
     hardware_path: str | None = None,
+    columns: str | None = None,
 ) -> TriageRun:
     """Load the inventory (with a CBOM side file, if any), profile and hardware file, triage
     with the uncertainty band, keep the parts."""
@@ -144,10 +174,10 @@ def prepare(
     from pqtriage.sources.hardware_file import load_hardware
     from pqtriage.sources.profile_file import load_profile
 
-    inventory = load_any(inventory_path, cbom_defaults)
+    catalog = load_catalog()
+    inventory = load_any(inventory_path, cbom_defaults, columns, catalog)
     profile = load_profile(profile_name)
     hardware = load_hardware(hardware_path)
-    catalog = load_catalog()
     arrival, band = arrival_and_band(profile, as_of, hardware)
     return TriageRun(triage(inventory, catalog, profile, arrival, as_of, band), catalog, arrival)
 
@@ -164,7 +194,7 @@ def arrival_and_band(profile: ThreatProfile, as_of: dt.date, hardware: Any) -> t
 
 
 def load_review(path: str, profile: str | None, as_of: Any, cbom_defaults: str | None,
-                hardware_path: str | None = None) -> Any:
+                hardware_path: str | None = None, columns: str | None = None) -> Any:
     """A Review from a JSON result file, or from an inventory (YAML or CycloneDX) triaged now."""
     from pqtriage.errors import InventoryError, Place
     from pqtriage.model.diff import review_of_json, review_of_result
@@ -186,8 +216,9 @@ def load_review(path: str, profile: str | None, as_of: Any, cbom_defaults: str |
     from pqtriage.sources.hardware_file import load_hardware
     from pqtriage.sources.profile_file import load_profile
 
-    inventory = load_any(path, cbom_defaults)
+    catalog = load_catalog()
+    inventory = load_any(path, cbom_defaults, columns, catalog)
     threat = load_profile(profile)
     arrival, band = arrival_and_band(threat, as_of, load_hardware(hardware_path))
-    result = triage(inventory, load_catalog(), threat, arrival, as_of, band)
+    result = triage(inventory, catalog, threat, arrival, as_of, band)
     return review_of_result(result, path)

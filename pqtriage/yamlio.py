@@ -51,6 +51,9 @@ class Node:
     """For a mapping entry: 1-based column of its key."""
     tag: str = ""
     """Resolved YAML tag (tag:yaml.org,2002:int ...)."""
+    text: str | None = None
+    """For a scalar that did not resolve to text (a number, a boolean, a date): the text as
+    written, so text fields keep ``010`` or ``2.10`` as typed instead of YAML 1.1's reading."""
     alias_of: int | None = None
     """For an alias (``*name``): the line of its anchor; ``line`` and ``column`` are the alias's."""
 
@@ -205,7 +208,7 @@ class _Builder:
         text = event.value
         if tag == _INT_TAG and text.isascii() and text.isdigit() and (text[0] != "0" or text == "0"):
             try:  # plain decimal: the constructor's answer without its cost (a flood is millions)
-                return Node(int(text), line, column, key[0], key[1], tag)
+                return Node(int(text), line, column, key[0], key[1], tag, text)
             except ValueError as exc:  # more digits than Python converts
                 raise self.error(f"cannot read value {text[:40]!r}", place=self.place(event)) from exc
         marks: Any = (event.start_mark, event.end_mark)
@@ -222,7 +225,7 @@ class _Builder:
             raise self.error(f"cannot read value {event.value[:40]!r}", place=self.place(event)) from exc
         if isinstance(value, (bytes, bytearray)) or not isinstance(value, (str, int, float, bool, type(None))):
             value = str(event.value)  # dates, binary, timestamps: keep the text as written
-        return Node(value, line, column, key[0], key[1], tag)
+        return Node(value, line, column, key[0], key[1], tag, event.value)
 
     def build(self, events: object) -> Node | None:
         stack: list[_Open] = []
@@ -286,7 +289,7 @@ class _Builder:
                     raise self.too_deep(event, alias=True)
                 # The alias's own place: an error about this value is reported where it is used.
                 line, column = _position(event)
-                node = Node(target.value, line, column, key[0], key[1], target.tag, target.line)
+                node = Node(target.value, line, column, key[0], key[1], target.tag, target.text, target.line)
             else:
                 assert isinstance(event, yaml.ScalarEvent)
                 if parent is not None and parent.mapping and parent.pending_key is None:

@@ -60,7 +60,9 @@ def test_fail_on_not_reached(tmp_path: Path, capsys: pytest.CaptureFixture[str])
 
 def test_bad_input_is_one_line_exit_2(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
     inv = tmp_path / "bad.yaml"
-    inv.write_text("version: 1\norganization: O\nsystems:\n  - id: a\n    shelf_life_years: -3\n")
+    # One mistake, one line (a file with several lists each, then a count: tests/sources/test_every_error.py).
+    inv.write_text("version: 1\norganization: O\nsystems:\n  - id: a\n    shelf_life_years: -3\n"
+                   "    migration_years: 1\n    uses: []\n")
     code, out, err = run(capsys, "triage", str(inv))
     assert code == 2 and out == ""
     assert err.count("\n") == 1 and f"{inv}:5:23:" in err and "Traceback" not in err

@@ -4,7 +4,8 @@ Public API (stable, used by the model and the formats):
 
 - ``load_catalog(path=None) -> Catalog``: the shipped catalog (cached) or another file.
 - ``Catalog.resolve(algorithm, *, key_size=None, curve=None, parameter_set=None,
-  purpose=None) -> Resolution``
+  purpose=None, oid=None) -> Resolution``: by OID first when one is given, then by name
+  (catalog spellings, then the Java, OpenSSL, Go and .NET names of ``algorithm_identifiers.yaml``)
 - ``Catalog.suggest(name, limit=3) -> tuple[str, ...]``
 - ``Catalog.specs() -> tuple[AlgorithmSpec, ...]``: every fixed-parameter entry.
 - ``Catalog.spellings() -> tuple[str, ...]``: every known spelling.
@@ -30,11 +31,16 @@ def shipped_path() -> Path:
 
 @functools.lru_cache(maxsize=1)
 def _shipped() -> Catalog:
-    return Catalog(read_catalog(shipped_path()))
+    from pqtriage.catalog.identifiers import read_identifiers, shipped_identifiers_path
+
+    return Catalog(read_catalog(shipped_path()), read_identifiers(shipped_identifiers_path()))
 
 
 def load_catalog(path: Path | None = None) -> Catalog:
     """Load the shipped catalog (loaded once, then cached) or the catalog file at ``path``.
+
+    The shipped catalog comes with the shipped identifier file (OIDs, names other tools write);
+    a catalog file of your own resolves its own spellings only.
 
     Raises:
         CatalogError: the file is missing, not YAML, or a row is malformed (the message names it).

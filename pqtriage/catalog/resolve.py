@@ -5,7 +5,10 @@ Lookup order: the exact spelling (case-insensitive), then the loose spelling
 different things is ambiguous and not used), then a family name with a size
 in it (``rsa3072``, ``DH-2048``), a family name with a curve in it
 (``ECDSA-P256``), a keyed family with the use's parameter (``AES-GCM`` +
-``key_size: 256``), then TLS cipher suites, else unknown with suggestions.
+``key_size: 256``), then TLS cipher suites, then the names other tools write (Java,
+OpenSSL, Go, .NET: :mod:`pqtriage.catalog.identifiers`), else unknown with suggestions.
+An object identifier, when the input gives one, is resolved first and checked against the
+name (:mod:`pqtriage.catalog.by_identifier`).
 """
 
 from __future__ import annotations
@@ -17,6 +20,7 @@ from dataclasses import dataclass, replace
 from typing import Any
 
 from pqtriage.catalog.build import SpecBuilder
+from pqtriage.catalog.identifiers import Identifiers, Translation
 from pqtriage.catalog.loader import RawCatalog, Row
 from pqtriage.catalog.spec import AlgorithmSpec, Resolution
 from pqtriage.catalog.strength import join_notes
@@ -67,15 +71,25 @@ class _Target:
 class Catalog:
     """The algorithm catalog: resolves names, lists specs and spellings."""
 
-    def __init__(self, raw: RawCatalog) -> None:
+    def __init__(self, raw: RawCatalog, identifiers: Identifiers | None = None) -> None:
         self._builder = SpecBuilder(raw)
         self._path = raw.path
         self._exact: dict[str, _Target] = {}
         self._loose: dict[str, _Target | None] = {}  # None: ambiguous
         self._display: dict[str, str] = {}
         self._curves: dict[str, Row] = {}
+        self.identifiers = identifiers
+        """OIDs and the names other tools write (None: catalog spellings only)."""
+        if identifiers is not None:
+            from pqtriage.catalog.by_identifier import attach_oids
+
+            attach_oids(self._builder, identifiers)
         self._index(raw)
         self._suites = SuiteParser(raw.suite_tokens, self, raw.path)
+        if identifiers is not None:
+            from pqtriage.catalog.by_identifier import check_targets
+
+            check_targets(self, identifiers)
 
     # -- public API -----------------------------------------------------------------------
     def resolve(
@@ -86,19 +100,41 @@ class Catalog:
         curve: str | None = None,
         parameter_set: str | None = None,
         purpose: str | None = None,
+        oid: str | None = None,
     ) -> Resolution:
         """Resolve an algorithm as written in an input, with the use's parameters.
 
         Args:
-            algorithm: any catalog spelling (``RSA-3072``, ``prime256v1``, a TLS suite ...).
+            algorithm: any catalog spelling (``RSA-3072``, ``prime256v1``, a TLS suite ...)
+                or a name another tool writes (``SHA512withRSA``, ``AES/GCM/NoPadding``).
             key_size: key or modulus size, when the name does not fix it.
             curve: elliptic curve (or named FFDH group), when the name does not fix it.
             parameter_set: parameter set (``768`` for ML-KEM ...), when not in the name.
             purpose: the use's purpose; decides ECDSA vs ECDH for a bare curve.
+            oid: the object identifier the input gives for the algorithm: resolved first; a
+                name that contradicts it makes the use unassessed, naming both.
 
         Returns:
             A Resolution; ``spec`` is None (with a reason) when it cannot be assessed.
         """
+        if oid and self.identifiers is not None:
+            from pqtriage.catalog.by_identifier import resolve_with_oid
+
+            return resolve_with_oid(self, self.identifiers, str(algorithm), oid, key_size=key_size,
+                                    curve=curve, parameter_set=parameter_set, purpose=_purpose(purpose))
+        return self.resolve_name(algorithm, key_size=key_size, curve=curve, parameter_set=parameter_set,
+                                 purpose=purpose)
+
+    def resolve_name(
+        self,
+        algorithm: str,
+        *,
+        key_size: int | None = None,
+        curve: str | None = None,
+        parameter_set: str | None = None,
+        purpose: str | None = None,
+    ) -> Resolution:
+        """Resolve by name alone (``resolve`` without an OID)."""
         text = " ".join(str(algorithm).split())
         if not text:
             return Resolution(None, reason="no algorithm name given")
@@ -121,9 +157,36 @@ class Catalog:
         found = found or self._suites.resolve(text, key_size=key_size, curve=curve)
         if found is not None:
             return found
+        translation = self.identifiers.translate(text) if self.identifiers is not None else None
+        if translation is not None:
+            return self._translated(text, translation, key_size, curve, parameter_set, use_purpose)
         return Resolution(
             None, reason=f"'{text}' is not in the algorithm catalog", suggestions=self.suggest(text)
         )
+
+    def _translated(self, text: str, translation: Translation, key_size: int | None,
+                    curve: str | None, parameter_set: str | None, purpose: str | None) -> Resolution:
+        """A name another tool writes, resolved as the catalog spelling it stands for."""
+        wanted = purpose or translation.purpose
+        if translation.algorithm is None:  # Java XDH / EdDSA: the curve says which
+            if not curve:
+                return Resolution(None, reason=f"{text} ({translation.written_as}) needs {translation.needs}",
+                                  family=text, quantum_attack="shor")
+            found = self.resolve_name(curve, purpose=translation.purpose)
+        else:
+            found = self.resolve_name(translation.algorithm, key_size=key_size, curve=curve,
+                                      parameter_set=parameter_set, purpose=wanted)
+        if found.spec is None:
+            reason = f"{text} (read as {translation.algorithm or curve}: {translation.written_as}): {found.reason}"
+            return replace(found, reason=reason)
+        spec = found.spec
+        identifiers = dict(spec.identifiers)
+        if translation.oid is not None:
+            identifiers.setdefault("oid", translation.oid.oid)
+        return Resolution(replace(
+            spec, identifiers=identifiers, source=f"{translation.source}; {spec.source}",
+            notes=join_notes(spec.notes, f"read as {translation.algorithm or curve}: {translation.written_as}"),
+        ))
 
     def suggest(self, name: str, limit: int = 3) -> tuple[str, ...]:
         """Up to ``limit`` known spellings close to ``name`` (difflib ratio), best first."""
@@ -133,6 +196,14 @@ class Catalog:
     def specs(self) -> tuple[AlgorithmSpec, ...]:
         """Every fixed-parameter entry (RSA/DH/DSA at common sizes, ECDSA/ECDH per curve, ...)."""
         return tuple(self._builder.fixed.values())
+
+    def curve_in(self, text: str) -> str | None:
+        """The catalog curve a name ends with (``ECDSA-P256`` -> P-256), or None."""
+        loose = loose_key(text)
+        for key in sorted(self._curves, key=len, reverse=True):
+            if loose.endswith(key):
+                return str(self._curves[key]["name"])
+        return None
 
     def spellings(self) -> tuple[str, ...]:
         """Every known spelling (names, aliases, family names, curve names), sorted."""

@@ -95,7 +95,8 @@ def main(argv: Optional[list[str]] = None) -> int:
     except PqtriageError as exc:
         if debug:
             raise
-        print_error(exc.diagnostics())
+        for line in exc.diagnostic_lines():
+            print_error(line)
         if exc.exit_code == EXIT_INTERNAL:
             from pqtriage.cli.output import quiet_stdout
 

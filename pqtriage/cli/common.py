@@ -13,7 +13,7 @@ from typing import Any, Optional
 
 import typer
 
-from pqtriage.errors import EXIT_FINDINGS, EXIT_OK
+from pqtriage.errors import EXIT_FINDINGS, EXIT_OK, UsageError
 
 PROFILE_HELP = ("Threat profile: a shipped name (survey-2025-upper, survey-2025-lower, survey-2024-upper, "
                 "survey-2024-lower) or a YAML file.")
@@ -23,6 +23,12 @@ AS_OF_HELP = "Date treated as today (YYYY-MM-DD), for reproducible reports."
 CBOM_DEFAULTS_HELP = "For a CycloneDX input: YAML side file with shelf-life, migration time and other values a CBOM cannot carry."
 POLICY_HELP = ("Policy timeline to check (repeatable): nist-ir-8547, cnsa2, uk-ncsc, eu-roadmap, au-ism, "
                "ca-roadmap, bsi, nsm-10. Added to those the inventory names.")
+COLUMNS_HELP = ("For a CSV file or a workbook: YAML column map of header names and value spellings "
+                "(see docs/inventory-format.md).")
+WHERE_HELP = ("Show only systems matching this filter, e.g. \"criticality >= high and verdict = exposed\" "
+              "(see docs/inventory-format.md, 'Views').")
+GROUP_BY_HELP = "Group the systems by this field: owner, business_unit, criticality, verdict, hosting.model, tags, extra.NAME ..."
+TOP_HELP = "Show only the N most urgent systems (after --where), in every format."
 CAPACITY_HELP = "Migrations in parallel (3), person-weeks per quarter (40pw), or both (3,40pw)."
 OUTPUT_HELP = ("Write to this file instead of stdout ('-' is stdout), atomically; a symbolic link is "
                "written through to its target. Devices, pipes, folders and this run's input files "
@@ -38,6 +44,7 @@ class ResultFormatChoice(str, Enum):
     csv = "csv"
     sarif = "sarif"
     cbom = "cbom"
+    xlsx = "xlsx"
 
 
 class VerdictChoice(str, Enum):
@@ -103,6 +110,7 @@ def result_formats() -> dict[str, Any]:
     from pqtriage.formats.json.triage import JsonFormat
     from pqtriage.formats.markdown.triage import MarkdownFormat
     from pqtriage.formats.sarif.triage import SarifFormat
+    from pqtriage.formats.xlsx.triage import XlsxFormat
 
     return {
         ResultFormatChoice.table.value: None,
@@ -111,7 +119,49 @@ def result_formats() -> dict[str, Any]:
         ResultFormatChoice.csv.value: CsvFormat(),
         ResultFormatChoice.sarif.value: SarifFormat(),
         ResultFormatChoice.cbom.value: CbomFormat(),
+        ResultFormatChoice.xlsx.value: XlsxFormat(),
     }
+
+
+GROUPABLE_FORMATS = ("table", "markdown", "csv", "json", "xlsx")
+"""Formats that show --group-by (SARIF and CycloneDX have no place for groups)."""
+
+
+def view_of(result: Any, where: Optional[str], top: Optional[int], group_by: Optional[str],
+            output_format: str = "table") -> Any:
+    """The part of a result --where, --top and --group-by ask for (refused where it cannot apply)."""
+    if where is None and top is None and group_by is None:
+        return result
+    from pqtriage.model.filter import parse_filter
+    from pqtriage.model.view import check_group_field, select
+
+    if group_by is not None and output_format not in GROUPABLE_FORMATS:
+        raise UsageError(f"--group-by does not apply to --format {output_format}",
+                         hint=f"use it with {', '.join(GROUPABLE_FORMATS)}")
+    field = check_group_field(group_by) if group_by is not None else None
+    return select(result, parse_filter(where) if where is not None else None, top, field)
+
+
+def emit_bytes(data: bytes, output: Optional[str], what: str, inputs: Inputs = ()) -> None:
+    """Write a binary output to -o FILE atomically, or to stdout when it is not a terminal."""
+    if to_file(output):
+        from pqtriage.cli.output import write_atomic
+
+        write_atomic(str(output), data, inputs)
+        return
+    if sys.stdout.isatty():
+        raise UsageError(f"{what} is a binary file: it is not printed on a terminal",
+                         hint="give -o FILE, or redirect the output to a file")
+    from pqtriage.cli.output import stdout_failure
+
+    try:
+        sys.stdout.flush()
+        sys.stdout.buffer.write(data)
+        sys.stdout.buffer.flush()
+    except BrokenPipeError:
+        raise
+    except OSError as exc:
+        raise stdout_failure(exc) from exc
 
 
 def console(stderr: bool = False) -> Any:

@@ -5,6 +5,7 @@ from __future__ import annotations
 import typer
 
 from pqtriage.cli.common import (
+    COLUMNS_HELP,
     HARDWARE_HELP,
     OUTPUT_HELP,
     DiffFormat,
@@ -25,17 +26,18 @@ def diff(
     profile: str | None = typer.Option(None, "--profile", help="Threat profile for inventories (not for JSON results)."),
     as_of: str | None = typer.Option(None, "--as-of", help="Date treated as today for inventories (YYYY-MM-DD)."),
     cbom_defaults: str | None = typer.Option(None, "--cbom-defaults", help="CBOM side file (shelf-life, migration time) for CycloneDX inputs."),
+    columns: str | None = typer.Option(None, "--columns", help=COLUMNS_HELP),
     hardware: str | None = typer.Option(None, "--hardware", help=HARDWARE_HELP),
 ) -> None:
     """Compare two reviews: systems migrated, improved, worsened, new and removed."""
     from pqtriage.model.diff import compare
     from pqtriage.pipeline import load_review, parse_as_of
 
-    inputs = [old, new, profile_input(profile), cbom_defaults, hardware]
+    inputs = [old, new, profile_input(profile), cbom_defaults, hardware, columns]
     check_outputs(output, inputs)
     date = parse_as_of(as_of)
-    result = compare(load_review(old, profile, date, cbom_defaults, hardware),
-                     load_review(new, profile, date, cbom_defaults, hardware))
+    result = compare(load_review(old, profile, date, cbom_defaults, hardware, columns),
+                     load_review(new, profile, date, cbom_defaults, hardware, columns))
     if output_format is DiffFormat.markdown:
         from pqtriage.formats.markdown.diff import markdown_section
 

@@ -177,14 +177,15 @@ def _write_all(descriptor: int, data: bytes) -> None:
         view = view[written:]
 
 
-def encode_output(text: str) -> bytes:
+def encode_output(text: str | bytes) -> bytes:
     """UTF-8 bytes of an output; a lone surrogate (an undecodable file name) becomes ``\\udcXX``."""
-    return text.encode("utf-8", "backslashreplace")
+    return text if isinstance(text, bytes) else text.encode("utf-8", "backslashreplace")
 
 
-def write_atomic(path: str | Path, text: str,
+def write_atomic(path: str | Path, text: str | bytes,
                  inputs: Iterable[str | Path | Identity | None] = ()) -> None:
-    """Write text to path so a reader sees the old file or the new one, never a partial one.
+    """Write text (or bytes: a workbook) to path so a reader sees the old file or the new one,
+    never a partial one.
 
     Raises:
         OutputError: the target is refused (see :func:`output_target`), exit code 2.

@@ -13,6 +13,7 @@ import typer
 
 from pqtriage.cli.common import (
     CAPACITY_HELP,
+    COLUMNS_HELP,
     HARDWARE_HELP,
     OUTPUT_HELP,
     POLICY_HELP,
@@ -111,6 +112,7 @@ def plan(
     as_of: Optional[str] = typer.Option(None, "--as-of", help="Date treated as today (YYYY-MM-DD)."),
     sensitivity: bool = typer.Option(False, "--sensitivity", help="Also show which systems change verdict if the CRQC moves -5..+5 years."),
     cbom_defaults: Optional[str] = typer.Option(None, "--cbom-defaults", help="For a CycloneDX input: YAML side file with values a CBOM cannot carry."),
+    columns: Optional[str] = typer.Option(None, "--columns", help=COLUMNS_HELP),
     hardware: Optional[str] = typer.Option(None, "--hardware", help=HARDWARE_HELP),
 ) -> None:
     """Plan the migration: deadlines per system, schedule under capacity, critical path."""
@@ -119,10 +121,10 @@ def plan(
     from pqtriage.cli.output import write_atomic
     from pqtriage.pipeline import parse_as_of, prepare
 
-    inputs = [inventory, profile_input(profile), cbom_defaults, hardware]
+    inputs = [inventory, profile_input(profile), cbom_defaults, hardware, columns]
     chart = chart_path_for(output) if output_format == PlanFormat.markdown and to_file(output) and output else None
     check_outputs(output, inputs, chart)
-    run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults, hardware)
+    run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults, hardware, columns)
     the_plan = run.plan(tuple(policy or ()), capacity)
     if output_format == PlanFormat.table:
         from rich.console import Group

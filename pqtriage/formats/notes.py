@@ -53,7 +53,8 @@ def fmt_year(year: float | None) -> str:
 def assumptions(result: TriageResult) -> list[str]:
     """The assumptions this run used, in plain words."""
     profile = result.profile
-    items = [
+    items = [result.selection.describe()] if result.selection else []
+    items += [
         f"Today is taken as {result.as_of.isoformat()} (set with --as-of).",
         f"Threat profile '{profile.name}': {profile.description}",
         f"Profile source: {profile.source}",

@@ -147,6 +147,33 @@ def csv_cell(text: object) -> str:
     return value
 
 
+_NOT_IN_CELL = re.compile(
+    "[\x00-\x08\x0b\x0c\x0e-\x1f\x7f-\x9f\u200b-\u200f\u202a-\u202e\u2060-\u2069\ufeff\ufffe\uffff\ud800-\udfff]"
+)
+FORMULA_STARTS = "=+-@\t\r"
+"""First characters that make a spreadsheet treat a cell as a formula (OWASP, "CSV Injection")."""
+
+
+def cell_text(text: object) -> str:
+    """Text for a workbook cell, kept as typed except what a cell cannot show literally.
+
+    Characters XML 1.0 forbids (most C0 controls) and invisible or bidirectional-override
+    characters are shown as escapes (``\\x01``, ``\\u202e``), as in every other output; tabs
+    and line breaks are kept (a cell may hold several lines). Formula starts are not changed
+    here: the workbook writer stores such a cell as text with the quote-prefix style.
+    """
+    value = "" if text is None else str(text)
+    if value.isascii() and value.isprintable():
+        return value
+    value = _NOT_IN_CELL.sub(_visible, value)
+    return "".join(f"\\u{ord(c):04x}" if unicodedata.category(c) == "Cf" else c for c in value)
+
+
+def starts_formula(text: str) -> bool:
+    """Whether a spreadsheet would run this text as a formula."""
+    return bool(text) and text[0] in FORMULA_STARTS
+
+
 def control_escapes(text: str) -> str:
     """Text for the plan's terminal view: :func:`visible` (kept for callers of the old name)."""
     return visible(text)

@@ -39,6 +39,35 @@ class Criticality(str, Enum):
     LOW = "low"
 
 
+class Impact(str, Enum):
+    """FIPS 199 potential impact level of a system (FIPS PUB 199, 2004, section 3)."""
+
+    LOW = "low"
+    MODERATE = "moderate"
+    HIGH = "high"
+
+
+class HostingModel(str, Enum):
+    """Where a system runs."""
+
+    ON_PREMISES = "on-premises"
+    CLOUD = "cloud"
+    HYBRID = "hybrid"
+
+
+class KeyStorage(str, Enum):
+    """Where keys are kept: a hardware security module, a TPM, software, a cloud key service."""
+
+    HSM = "hsm"
+    TPM = "tpm"
+    SOFTWARE = "software"
+    CLOUD_KMS = "cloud-kms"
+    UNKNOWN = "unknown"
+
+
+IMPACT_ORDER = {Impact.LOW: 0, Impact.MODERATE: 1, Impact.HIGH: 2}
+"""FIPS 199 levels from least to most impact."""
+
 EXPOSURE_ORDER = {Exposure.INTERNET: 0, Exposure.PARTNER: 1, Exposure.INTERNAL: 2, Exposure.ISOLATED: 3}
 """Ranking weight: lower is more exposed to interception."""
 CRITICALITY_ORDER = {
@@ -83,6 +112,32 @@ USE_ROLES = (IN_USE, OFFERED)
 
 
 @dataclass(frozen=True)
+class DataClassification:
+    """How the organisation classifies a system's data."""
+
+    label: str
+    """The organisation's own label (Confidential, Restricted ...)."""
+    rank: int | None = None
+    """Sensitivity on the organisation's scale, 0 (public) upwards; None when not ranked."""
+
+
+@dataclass(frozen=True)
+class Hosting:
+    """Where a system runs."""
+
+    model: HostingModel
+    """On-premises, cloud or hybrid."""
+    provider: str | None = None
+    """Cloud or hosting provider."""
+    country: str | None = None
+    """ISO 3166-1 alpha-2 code of the country where it runs or keeps its data."""
+
+
+ExtraValue = str | int | float | bool
+"""A value of the organisation's own fields."""
+
+
+@dataclass(frozen=True)
 class CryptoUse:
     """One place where a system uses one algorithm for one purpose."""
 
@@ -100,6 +155,18 @@ class CryptoUse:
     """How long signatures or integrity tags must stay unforgeable (years)."""
     protocol: str | None = None
     """Protocol carrying the use (TLS 1.3, SSH, IPsec ...), informational."""
+    protocol_version: str | None = None
+    """Version of that protocol, when not in its name."""
+    key_storage: KeyStorage | None = None
+    """Where this use's key is kept (None: as the system says)."""
+    crypto_library: str | None = None
+    """Cryptographic library doing the operation (None: as the system says)."""
+    crypto_module: str | None = None
+    """Validated cryptographic module doing it (None: as the system says)."""
+    fips_140_certificate: str | None = None
+    """CMVP certificate number of that module (None: as the system says)."""
+    fips_140_level: str | None = None
+    """FIPS 140 edition and level, CycloneDX spelling (fips140-3-l2 ...)."""
     notes: str | None = None
     """Free text from the inventory owner."""
     source: SourceRef | None = None
@@ -113,6 +180,9 @@ class CryptoUse:
     """Start of validity of the certificate this use rests on, when it comes from one."""
     not_after: dt.date | None = None
     """End of validity of the certificate this use rests on, when it comes from one."""
+    oid: str | None = None
+    """Object identifier the input gives for the algorithm (a CBOM's cryptoProperties.oid):
+    the catalog resolves it first, and a name that contradicts it makes the use unassessed."""
 
 
 @dataclass(frozen=True)
@@ -149,6 +219,40 @@ class System:
     """Planning input: estimated effort of the migration."""
     vendor_readiness: str | None = None
     """Planning input: available, announced or unknown post-quantum support from vendors."""
+    business_unit: str | None = None
+    """Business unit or department the system belongs to."""
+    tags: tuple[str, ...] = ()
+    """The organisation's own labels."""
+    impact: Impact | None = None
+    """FIPS 199 impact level."""
+    high_value_asset: bool | None = None
+    """Whether it is a high-value asset (OMB M-19-03); None when not stated."""
+    data_classification: DataClassification | None = None
+    """Classification of its data."""
+    hosting: Hosting | None = None
+    """Where it runs."""
+    vendor: str | None = None
+    """Vendor of the product."""
+    product: str | None = None
+    """Product name."""
+    version: str | None = None
+    """Product version, as text."""
+    protocol_version: str | None = None
+    """Version of the main protocol."""
+    crypto_library: str | None = None
+    """Cryptographic library it uses."""
+    crypto_module: str | None = None
+    """Validated cryptographic module it uses."""
+    fips_140_certificate: str | None = None
+    """CMVP certificate number of that module."""
+    fips_140_level: str | None = None
+    """FIPS 140 edition and level, CycloneDX spelling (fips140-3-l2 ...)."""
+    key_storage: KeyStorage | None = None
+    """Where its keys are kept."""
+    frameworks: tuple[str, ...] | None = None
+    """Policy frameworks that apply to it; None: those of the inventory."""
+    extra: tuple[tuple[str, ExtraValue], ...] = ()
+    """The organisation's own fields, in input order."""
     source: SourceRef | None = None
     """Where this system was written or found."""
     assumed: tuple[str, ...] = ()
@@ -171,10 +275,16 @@ class Inventory:
     """SHA-256 of that file's bytes, for the compliance record."""
     policies: tuple[str, ...] = ()
     """Policy timeline identifiers the inventory names as applying to it."""
+    frameworks: tuple[str, ...] = ()
+    """Policy frameworks that apply to every system that does not name its own."""
     warnings: tuple[str, ...] = ()
     """One-line diagnostics that do not stop the run (for example a dependency outside the file)."""
     extra: dict[str, object] = field(default_factory=dict, compare=False, hash=False)
     """Source-specific metadata (for example CBOM serial number), passed through."""
+
+    def frameworks_of(self, system: System) -> tuple[str, ...]:
+        """The frameworks that apply to a system: its own list, else the inventory's."""
+        return self.frameworks if system.frameworks is None else system.frameworks
 
     def system(self, system_id: str) -> System:
         """Return the system with this id (KeyError if absent)."""

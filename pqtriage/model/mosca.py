@@ -16,17 +16,19 @@ from pqtriage.catalog.spec import AlgorithmSpec, Resolution
 from pqtriage.model.arrival_model import ArrivalModel
 from pqtriage.model.inventory import CryptoUse, Purpose, System
 from pqtriage.model.profile import ThreatProfile, date_of, decimal_year
+from pqtriage.model.validity import remaining_years
 from pqtriage.model.verdict import SEVERITY, UseAssessment, Verdict
 
 _ATTACK_ORDER = {"shor": 2, "grover": 1, "none": 0}
 
 
-def x_years(use: CryptoUse, system: System) -> tuple[float, tuple[str, ...]]:
+def x_years(use: CryptoUse, system: System, as_of: dt.date | None = None) -> tuple[float, tuple[str, ...]]:
     """Mosca's x for a use, by purpose, with any assumption it made.
 
     Key establishment and encryption protect data that can be recorded now and
     decrypted later (harvest now, decrypt later): x is the data's shelf-life.
-    Signatures and integrity tags must stay unforgeable for ``trust_years``;
+    Signatures and integrity tags must stay unforgeable for ``trust_years``, else
+    for the remaining validity of the certificate they rest on (``not_after``);
     live authentication needs to hold only while the session runs (x = 0).
     """
     if use.purpose in (Purpose.KEY_ESTABLISHMENT, Purpose.ENCRYPTION):
@@ -34,6 +36,8 @@ def x_years(use: CryptoUse, system: System) -> tuple[float, tuple[str, ...]]:
     if use.purpose in (Purpose.SIGNATURE, Purpose.INTEGRITY):
         if use.trust_years is not None:
             return float(use.trust_years), ()
+        if use.not_after is not None and as_of is not None:
+            return remaining_years(use.not_after, as_of), ()
         return 0.0, (
             f"{use.purpose.value} with no trust_years: x = 0 (signatures need only hold until migration ends)",
         )
@@ -129,7 +133,7 @@ def use_verdict(
     """Only the verdict of a use (for sensitivity runs): the same rules as evaluate_use."""
     if spec is None:
         return Verdict.UNASSESSED
-    x, _ = x_years(use, system)
+    x, _ = x_years(use, system, as_of)
     best: tuple | None = None
     for part, purpose, part_x in evaluation_parts(use, system, spec, x):
         result = _evaluate_spec(part, purpose, part_x, system.migration_years, profile, arrival, as_of)
@@ -148,11 +152,13 @@ def evaluate_use(
     as_of: dt.date,
 ) -> UseAssessment:
     """Evaluate one use of a system against the profile."""
-    x, assumptions = x_years(use, system)
+    x, assumptions = x_years(use, system, as_of)
     y = system.migration_years
     assumed = tuple(f"{name} is an assumed default" for name in use.assumed)
     if resolution.spec is None:
         hint = f"; did you mean {', '.join(resolution.suggestions)}?" if resolution.suggestions else ""
+        if use.notes:  # the source's own account of what is missing (a dangling CBOM reference ...)
+            hint += f" ({use.notes})"
         return UseAssessment(
             use=use, spec=None, deciding=None, verdict=Verdict.UNASSESSED, x_years=x, y_years=y,
             exposure_probability=None, margin_years=None, start_by=None, crqc_year=None,

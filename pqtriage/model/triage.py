@@ -39,20 +39,22 @@ class Resolver(Protocol):
         parameter_set: str | None = None,
         purpose: str | None = None,
     ) -> Resolution:
-        """Look an algorithm up."""
+        """Look an algorithm up (the shipped catalog also takes ``oid=``, resolved first)."""
         ...
 
 
 def _resolve(catalog: Resolver, use: CryptoUse, cache: dict[tuple, Resolution]) -> Resolution:
-    key = (use.algorithm, use.key_size, use.curve, use.parameter_set, use.purpose.value)
+    key = (use.algorithm, use.key_size, use.curve, use.parameter_set, use.purpose.value, use.oid)
     found = cache.get(key)
     if found is None:
+        extra = {"oid": use.oid} if use.oid else {}  # a resolver without OIDs is still a Resolver
         found = catalog.resolve(
             use.algorithm,
             key_size=use.key_size,
             curve=use.curve,
             parameter_set=use.parameter_set,
             purpose=use.purpose.value,
+            **extra,
         )
         cache[key] = found
     return found
@@ -129,12 +131,30 @@ def _assess_system(system: System, uses: tuple[UseAssessment, ...]) -> SystemAss
             reason="no cryptographic use listed: add its uses to assess it",
         )
     weakest = min(uses, key=use_sort_key)
+    if weakest.verdict is Verdict.UNASSESSED:
+        # Nothing computed from the other uses stands for the system: its weakest link is unknown.
+        return SystemAssessment(
+            system=system, uses=uses, verdict=Verdict.UNASSESSED, weakest=weakest,
+            exposure_probability=None, margin_years=None, start_by=None, rank=0,
+            reason=f"{unassessed_label(weakest)}: {weakest.reason}",
+        )
     dates = [u.start_by for u in uses if u.start_by is not None]
     return SystemAssessment(
         system=system, uses=uses, verdict=weakest.verdict, weakest=weakest,
         exposure_probability=weakest.exposure_probability, margin_years=weakest.margin_years,
         start_by=min(dates) if dates else None, rank=0, reason=weakest.reason,
     )
+
+
+def unassessed_label(item: UseAssessment) -> str:
+    """Which use made a system unassessed: algorithm, purpose and where it was read."""
+    source = item.use.source
+    where = ""
+    if source is not None and source.detail:
+        where = f", {source.detail}"
+    elif source is not None and source.line is not None:
+        where = f", line {source.line}"
+    return f"use {item.use.algorithm} ({item.use.purpose.value}{where})"
 
 
 def rank_key(item: SystemAssessment) -> tuple:

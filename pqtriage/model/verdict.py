@@ -126,6 +126,47 @@ class Summary:
 
 
 @dataclass(frozen=True)
+class Selection:
+    """What a view (--where, --top, --group-by; pqtriage.model.view) shows of a result."""
+
+    where: str | None
+    """The ``--where`` expression, if any."""
+    top: int | None
+    """``--top N``, if any."""
+    group_by: str | None
+    """The ``--group-by`` field, if any."""
+    total: int
+    """Systems in the whole result."""
+    matched: int
+    """Systems the filter keeps (before --top)."""
+    hidden_unassessed: int
+    """Unassessed systems not shown (they still need checking by hand)."""
+    counts: dict[Verdict, int]
+    """Shown systems per verdict."""
+
+    def describe(self) -> str:
+        """One sentence: what is shown and why."""
+        shown = sum(self.counts.values())
+        parts = []
+        if self.where is not None:
+            parts.append(f"systems matching --where \"{self.where}\"")
+        if self.top is not None:
+            parts.append(f"the top {self.top}")
+        text = f"Showing {shown} of {self.total} systems"
+        if parts:
+            text += " (" + ", ".join(parts) + ")"
+        if self.group_by:
+            text += f", grouped by {self.group_by}"
+        text += "."
+        if self.hidden_unassessed == 1:
+            text += " 1 unassessed system is not shown: it is not safe, check it in the full result."
+        elif self.hidden_unassessed:
+            text += (f" {self.hidden_unassessed} unassessed systems are not shown: they are not safe,"
+                     " check them in the full result.")
+        return text
+
+
+@dataclass(frozen=True)
 class TriageResult:
     """The ranked output of one triage run."""
 
@@ -145,6 +186,9 @@ class TriageResult:
     """The arrival of each distinct algorithm used, earliest first."""
     band: BandSummary | None = None
     """What the uncertainty band sampled; None when no band was computed."""
+    selection: Selection | None = None
+    """When a view (--where, --top, --group-by) shows part of the result: what it shows.
+    ``items`` then holds the shown systems; ``summary`` is still that of the whole inventory."""
 
 
 @dataclass(frozen=True)

@@ -24,6 +24,7 @@ from __future__ import annotations
 import math
 import re
 from collections import deque
+from dataclasses import replace
 from typing import Any
 
 from pqtriage import jsonio
@@ -37,6 +38,7 @@ from pqtriage.sources.cbom_assets import (
     refs_of,
     text_of,
 )
+from pqtriage.sources.cbom_fields import apply_system_fields, use_fields
 from pqtriage.sources.cbom_side import (
     BUILTIN_DEFAULTS,
     SIDE_SYSTEM_FIELDS,
@@ -63,20 +65,25 @@ def load_json(text: str, path: str) -> Any:
 
 def asset_parts(component: dict[str, Any]) -> list[str]:
     """bom-refs an asset's cryptoProperties refer to (its algorithms, keys, suites)."""
-    crypto = mapping_of(component.get("cryptoProperties"))
+    crypto = component.get("cryptoProperties")
+    if not isinstance(crypto, dict):
+        return []
     found: list[str] = []
     for section, keys in _REF_FIELDS:
-        props = mapping_of(crypto.get(section))
-        found += [props[k] for k in keys if isinstance(props.get(k), str)]
-    protocol = mapping_of(crypto.get("protocolProperties"))
-    suites = protocol.get("cipherSuites")
-    for suite in suites if isinstance(suites, list) else []:
-        found += refs_of(mapping_of(suite).get("algorithms"))
-    for refs in mapping_of(protocol.get("ikev2TransformTypes")).values():
-        found += refs_of(refs)
-    found += refs_of(protocol.get("cryptoRefArray"))
+        props = crypto.get(section)
+        if isinstance(props, dict):
+            found += [props[k] for k in keys if isinstance(props.get(k), str)]
+    protocol = crypto.get("protocolProperties")
+    if isinstance(protocol, dict):
+        suites = protocol.get("cipherSuites")
+        for suite in suites if isinstance(suites, list) else []:
+            found += refs_of(mapping_of(suite).get("algorithms"))
+        for refs in mapping_of(protocol.get("ikev2TransformTypes")).values():
+            found += refs_of(refs)
+        found += refs_of(protocol.get("cryptoRefArray"))
     for section in ("certificateProperties", "relatedCryptoMaterialProperties", "protocolProperties"):
-        related = mapping_of(crypto.get(section)).get("relatedCryptographicAssets")  # CycloneDX 1.7
+        props = crypto.get(section)
+        related = props.get("relatedCryptographicAssets") if isinstance(props, dict) else None  # CycloneDX 1.7
         for item in related if isinstance(related, list) else []:
             if isinstance(mapping_of(item).get("ref"), str):
                 found.append(item["ref"])
@@ -98,6 +105,7 @@ class _BomReader:
         self.subject: str | None = None
         self.positions = Positions("")
         self.located = jsonio.JsonPositions("")
+        self._parts: dict[str, list[str]] = {}
 
     def fail(self, where: str, message: str, ref: str | None = None, hint: str | None = None,
              at: str | None = None) -> InventoryError:
@@ -126,7 +134,7 @@ class _BomReader:
                                  " read as 1.6")
         metadata = mapping_of(doc.get("metadata"))
         if isinstance(metadata.get("component"), dict):
-            self.subject = self._collect(metadata["component"], "metadata.component", None)
+            self.subject = self._collect(metadata["component"], "metadata.component", None, None)
         for key in ("components", "services"):
             self._collect_list(doc.get(key), key, None)
         self._dependencies(doc.get("dependencies"))
@@ -148,28 +156,33 @@ class _BomReader:
         if not isinstance(value, list):
             raise self.fail(where, "must be a list", parent)
         for index, item in enumerate(value):
-            self._collect(item, f"{where}[{index}]", parent)
+            self._collect(item, where, index, parent)
 
-    def _collect(self, component: object, where: str, parent: str | None) -> str:
+    def _collect(self, component: object, where: str, index: int | None, parent: str | None) -> str:
+        def label() -> str:  # built only when needed: most components have a bom-ref and no children
+            return where if index is None else f"{where}[{index}]"
+
         if not isinstance(component, dict):
-            raise self.fail(where, "must be a JSON object", parent)
+            raise self.fail(label(), "must be a JSON object", parent)
         ref = component.get("bom-ref")
         if ref is not None and not text_of(ref):
-            raise self.fail(where, "bom-ref must be non-empty text", parent)
-        ref = ref or where
+            raise self.fail(label(), "bom-ref must be non-empty text", parent)
+        ref = ref or label()
         if ref in self.nodes or ref in self.crypto:
             first, _ = self.positions.of(ref)
-            raise self.fail(where, f"duplicate bom-ref {quoted(ref, 80)} (first at line {first})", ref,
-                            "bom-refs must be unique in a BOM", at=f"{where}.bom-ref")
+            raise self.fail(label(), f"duplicate bom-ref {quoted(ref, 80)} (first at line {first})", ref,
+                            "bom-refs must be unique in a BOM", at=f"{label()}.bom-ref")
         is_crypto = component.get("type") == "cryptographic-asset" or "cryptoProperties" in component
         (self.crypto if is_crypto else self.nodes)[ref] = component
         if is_crypto and not isinstance(component.get("cryptoProperties"), dict):
-            self.warnings.append(f"{self.path}: {where} is a cryptographic asset without cryptoProperties;"
+            self.warnings.append(f"{self.path}: {label()} is a cryptographic asset without cryptoProperties;"
                                  " read as an algorithm named by its name")
         if parent is not None:
             self.nested.setdefault(parent, []).append(ref)
-        self._collect_list(component.get("components"), f"{where}.components", ref)
-        self._collect_list(component.get("services"), f"{where}.services", ref)
+        if "components" in component:
+            self._collect_list(component["components"], f"{label()}.components", ref)
+        if "services" in component:
+            self._collect_list(component["services"], f"{label()}.services", ref)
         return ref
 
     def _dependencies(self, value: object) -> None:
@@ -181,9 +194,11 @@ class _BomReader:
             if not isinstance(entry, dict) or not text_of(entry.get("ref")):
                 raise self.fail(f"dependencies[{index}]", "must be an object with a 'ref'")
             for key, target in (("dependsOn", self.edges), ("provides", self.provides)):
-                if key in entry and not isinstance(entry[key], list):
+                if key not in entry:
+                    continue
+                if not isinstance(entry[key], list):
                     raise self.fail(f"dependencies[{index}].{key}", "must be a list of bom-refs")
-                target.setdefault(entry["ref"], []).extend(refs_of(entry.get(key)))
+                target.setdefault(entry["ref"], []).extend(refs_of(entry[key]))
 
     def _closure(self, start: list[str]) -> set[str]:
         """Crypto assets reached from these through refs and dependsOn between crypto assets."""
@@ -194,8 +209,11 @@ class _BomReader:
             if ref in seen:
                 continue
             seen.add(ref)
-            nxt = asset_parts(self.crypto[ref]) + self.edges.get(ref, []) + self.nested.get(ref, [])
-            queue.extend(r for r in nxt if r in self.crypto and r not in seen)
+            parts = self._parts.get(ref)
+            if parts is None:
+                parts = self._parts[ref] = asset_parts(self.crypto[ref])
+            for nxt in (parts, self.edges.get(ref, ()), self.nested.get(ref, ())):
+                queue.extend(r for r in nxt if r in self.crypto and r not in seen)
         return seen
 
     def _carriers(self) -> tuple[dict[str, list[str]], list[str]]:
@@ -235,10 +253,11 @@ class _BomReader:
         depends = self._system_edges(ordered)
         systems = []
         for ref in ordered:
-            uses = [u for c in carriers.get(ref, []) for u in builder.uses_of(c)]
+            uses = [self._use_fields(u, c) for c in carriers.get(ref, []) for u in builder.uses_of(c)]
             systems.append(self._system(ref, self.nodes[ref], uses, depends.get(ref, ())))
         for ref in orphans:
-            systems.append(self._system(ref, self.crypto[ref], builder.uses_of(ref), ()))
+            uses = [self._use_fields(u, ref) for u in builder.uses_of(ref)]
+            systems.append(self._system(ref, self.crypto[ref], uses, ()))
         self.warnings.extend(builder.warnings)
         assumed = [s.id for s in systems if {"shelf_life_years", "migration_years"} & set(s.assumed)]
         if assumed:
@@ -271,6 +290,11 @@ class _BomReader:
                                  f" dropped '{last}' depends on '{first}'")
         return graph
 
+    def _use_fields(self, use: CryptoUse, carrier: str) -> CryptoUse:
+        """The guidance fields of a use (docs/interop.md; pqtriage.sources.cbom_fields)."""
+        changes = use_fields(self.crypto.get(carrier, {}), self.crypto)
+        return replace(use, **changes) if changes else use
+
     def _system(self, ref: str, component: dict[str, Any], uses: list[CryptoUse],
                 depends: tuple[str, ...]) -> System:
         name = text_of(component.get("name")) or ref
@@ -278,7 +302,7 @@ class _BomReader:
             name = f"{name} {component['version']}"
         values, assumed = self._values(ref, text_of(component.get("name")) or ref, component)
         line, column = self.positions.of(ref if "bom-ref" in component else None)
-        return System(
+        system = System(
             id=ref, name=values.get("name", name), shelf_life_years=float(values["shelf_life_years"]),
             migration_years=float(values["migration_years"]), uses=tuple(uses), depends_on=depends,
             owner=values.get("owner"),
@@ -290,6 +314,8 @@ class _BomReader:
             vendor_readiness=values.get("vendor_readiness"),
             source=SourceRef(self.path, line, column, f"bom-ref {ref}"), assumed=tuple(assumed),
         )
+        side = self.side.for_system(ref, text_of(component.get("name")) or ref) or {}
+        return apply_system_fields(system, component, side, self.warnings)
 
     def _values(self, ref: str, name: str, component: dict[str, Any]) -> tuple[dict[str, Any], list[str]]:
         side = self.side.for_system(ref, name) or {}

@@ -20,14 +20,14 @@ whose algorithm the catalog does not know: it is triaged as unassessed, never dr
 
 from __future__ import annotations
 
-import bisect
 import datetime as dt
 import json
 import re
-from dataclasses import dataclass, replace
+from dataclasses import dataclass, field, replace
 from typing import Any
 
-from pqtriage.model.inventory import CryptoUse, Purpose, SourceRef
+from pqtriage.model.inventory import USE_ROLES, CryptoUse, Purpose, SourceRef
+from pqtriage.sources.cbom_refs import KeyFacts, References, date_of
 
 PRIMITIVE_PURPOSE: dict[str, Purpose] = {
     "signature": Purpose.SIGNATURE,
@@ -79,8 +79,15 @@ PROTOCOL_LABEL = {"tls": "TLS", "ssh": "SSH", "ipsec": "IPsec", "ike": "IKE", "s
 """protocolProperties.type -> display name."""
 
 _BOM_REF = re.compile(r'"bom-ref"\s*:\s*("(?:[^"\\]|\\.)*")')
-_ASYMMETRIC = ("signature", "pke", "key-agree", "kem")
-_DAYS_PER_YEAR = 365.25  # Julian year, common practice
+MODES_IN_NAME = ("gcm", "ccm", "cbc", "ctr", "ecb")
+"""CycloneDX algorithmProperties.mode values the catalog rates as part of the name (AES + gcm ->
+AES-GCM); other modes (cfb, ofb) leave the cipher to be rated alone (NIST SP 800-38A)."""
+RSA_NAMES = ("rsa", "rsaencryption")
+"""Names a CycloneDX padding turns into an RSA scheme (padding oaep -> RSA-OAEP)."""
+USE_PROPERTIES = ("algorithm", "key_size", "curve", "parameter_set", "purpose", "trust_years", "not_before",
+                  "not_after", "role", "protocol", "notes", "assumed")
+"""``pqtriage:<field>`` properties of a cryptographic asset that ``--format cbom`` writes: the
+use's facts exactly as they were, read back in preference to what the standard fields say."""
 
 
 def text_of(value: object) -> str | None:
@@ -111,18 +118,23 @@ class Positions:
     """Line and column of each bom-ref in the JSON text (json.loads keeps no positions)."""
 
     def __init__(self, text: str):
-        self._starts = [0] + [m.end() for m in re.finditer("\n", text)]
         self._found: dict[str, tuple[int, int]] = {}
-        for match in _BOM_REF.finditer(text):
-            try:
-                ref = json.loads(match.group(1))
-            except ValueError:
-                continue
-            self._found.setdefault(ref, self._place(match.start()))
-
-    def _place(self, offset: int) -> tuple[int, int]:
-        line = bisect.bisect_right(self._starts, offset)
-        return line, offset - self._starts[line - 1] + 1
+        line, last, offset = 1, 0, text.find('"bom-ref"')
+        while offset >= 0:  # in document order: count the newlines in between (str.find is C-fast)
+            match = _BOM_REF.match(text, offset)
+            if match is not None:
+                line += text.count("\n", last, offset)
+                last = offset
+                quoted = match.group(1)
+                ref: str | None = quoted[1:-1]
+                if "\\" in quoted:
+                    try:
+                        ref = json.loads(quoted)
+                    except ValueError:
+                        ref = None
+                if isinstance(ref, str) and ref not in self._found:
+                    self._found[ref] = (line, offset - text.rfind("\n", 0, offset))
+            offset = text.find('"bom-ref"', offset + 9)
 
     def of(self, ref: str | None) -> tuple[int | None, int | None]:
         """(line, column) of the ``"bom-ref"`` key of this ref, or (None, None)."""
@@ -142,30 +154,54 @@ class _Context:
     purpose: Purpose | None = None
     """Purpose fixed by the context (a certificate's signature, an IKE transform type)."""
     key_size: int | None = None
-    """Key size fixed by the context (a key's size)."""
-    trust_years: float | None = None
-    """Trust period fixed by the context (a certificate's validity)."""
+    """Key size fixed by the context (a key's size, the key that signed a certificate)."""
+    curve: str | None = None
+    """Curve fixed by the context (the key that signed a certificate)."""
+    not_before: dt.date | None = None
+    """Start of validity of the certificate the use rests on."""
+    not_after: dt.date | None = None
+    """End of validity of the certificate the use rests on."""
+    notes: tuple[str, ...] = ()
+    """What the references said along the way (where a size came from, what is missing)."""
     via: tuple[str, ...] = ()
     """bom-refs between the carrier and the asset being expanded."""
 
     def into(self, ref: str, **changes: Any) -> _Context:
         """The context for a part this asset refers to."""
         last = self.via[-1] if self.via else self.carrier
-        via = self.via if ref == last else (*self.via, ref)
-        return replace(self, via=via, **changes)
+        fields = dict(self.__dict__)  # faster than dataclasses.replace on this hot path
+        fields["via"] = self.via if ref == last else (*self.via, ref)
+        fields.update(changes)
+        return _Context(**fields)
+
+    def noting(self, *notes: str | None) -> _Context:
+        """The same context with more notes."""
+        fields = dict(self.__dict__)
+        fields["notes"] = (*self.notes, *(n for n in notes if n))
+        return _Context(**fields)
 
 
+def _notes(*parts: str | None) -> str | None:
+    kept: list[str] = []
+    for part in parts:
+        if part and part not in kept:
+            kept.append(part)
+    return "; ".join(kept) or None
+
+
+@dataclass
 class UseBuilder:
     """Expands carrier assets into uses; ``assets`` maps bom-ref to the component."""
 
-    def __init__(self, path: str, assets: dict[str, dict[str, Any]], positions: Positions,
-                 children: dict[str, tuple[str, ...]]):
-        self.path = path
-        self.assets = assets
-        self.positions = positions
-        self.children = children
-        """dependsOn edges of crypto assets, used when an asset's properties name no algorithm."""
-        self.warnings: list[str] = []
+    path: str
+    assets: dict[str, dict[str, Any]]
+    positions: Positions
+    children: dict[str, tuple[str, ...]]
+    """dependsOn edges of crypto assets, used when an asset's properties name no algorithm."""
+    warnings: list[str] = field(default_factory=list)
+
+    def __post_init__(self) -> None:
+        self.refs = References(self.assets)
 
     def source(self, context: _Context, part: str | None) -> SourceRef:
         line, column = self.positions.of(context.carrier)
@@ -184,15 +220,19 @@ class UseBuilder:
         purpose = purpose or context.purpose
         return CryptoUse(
             purpose=purpose or Purpose.KEY_ESTABLISHMENT, algorithm=name, protocol=context.protocol,
-            notes=note, source=self.source(context, part), assumed=() if purpose else ("purpose",),
+            notes=_notes(*context.notes, note), source=self.source(context, part),
+            assumed=() if purpose else ("purpose",), not_before=context.not_before, not_after=context.not_after,
         )
+
+    def _dangling(self, context: _Context, field_name: str, ref: str) -> CryptoUse:
+        self.warnings.append(f"{self.source(context, None)}: {field_name} refers to bom-ref '{ref}', which is"
+                             " not in the BOM; its use is unassessed")
+        return self._unknown(context, ref, f"{field_name} refers to bom-ref '{ref}', which is not in the BOM")
 
     def _expand(self, ref: str, context: _Context, depth: int) -> list[CryptoUse]:
         component = self.assets.get(ref)
         if component is None:
-            self.warnings.append(f"{self.source(context, ref)}: refers to bom-ref '{ref}', which is not in"
-                                 " the BOM; its use is unassessed")
-            return [self._unknown(context, ref, "reference to a bom-ref not in the BOM", ref)]
+            return [self._dangling(context, "a reference", ref)]
         if depth > 8:  # refs only go certificate > key > algorithm; deeper is a loop
             return [self._unknown(context, str(component.get("name", ref)), "reference loop in the BOM", ref)]
         crypto = mapping_of(component.get("cryptoProperties"))
@@ -205,50 +245,77 @@ class UseBuilder:
             return self._material(ref, component, crypto, context, depth)
         return [self._algorithm(ref, component, crypto, context)]
 
+    # -- algorithms ---------------------------------------------------------------------------
     def _algorithm(self, ref: str, component: dict[str, Any], crypto: dict[str, Any],
                    context: _Context) -> CryptoUse:
         props = mapping_of(crypto.get("algorithmProperties"))
-        name = text_of(component.get("name")) or ref
+        written = text_of(component.get("name")) or ref
+        name, composed = compose_name(written, props)
         parameter_set = text_of(props.get("parameterSetIdentifier"))
         key_size = context.key_size
-        if key_size is None and parameter_set and parameter_set.isdigit() and len(parameter_set) < 6:
+        if key_size is None and parameter_set and parameter_set.isascii() and parameter_set.isdigit() and len(parameter_set) < 6:
             key_size = int(parameter_set)
-        curve = text_of(props.get("curve")) or text_of(props.get("ellipticCurve"))
-        own = properties_of(component)
+        curve = text_of(props.get("curve")) or text_of(props.get("ellipticCurve")) or context.curve
+        size_note = None
+        if key_size is None and curve is None:
+            key_size, size_note = self.refs.material_size(ref)
         purpose = context.purpose
         assumed: tuple[str, ...] = ()
-        if own.get("pqtriage:purpose") in {p.value for p in Purpose}:
-            purpose = Purpose(own["pqtriage:purpose"])
         if purpose is None:
             purpose = algorithm_purpose(props)
         if purpose is None:
             purpose, assumed = Purpose.KEY_ESTABLISHMENT, ("purpose",)
-        trust = context.trust_years
-        if trust is None and _number(own.get("pqtriage:trust_years")) is not None:
-            trust = _number(own.get("pqtriage:trust_years"))
         family = text_of(props.get("algorithmFamily"))
-        return CryptoUse(
+        use = CryptoUse(
             purpose=purpose, algorithm=name, key_size=key_size, curve=curve, parameter_set=parameter_set,
-            trust_years=trust, protocol=context.protocol,
-            notes=f"algorithm family {family} (CycloneDX 1.7)" if family else None,
-            source=self.source(context, ref), assumed=assumed,
+            protocol=context.protocol, oid=text_of(crypto.get("oid")),
+            notes=_notes(*context.notes, composed, size_note, f"algorithm family {family} (CycloneDX 1.7)" if family
+                         else None),
+            source=self.source(context, ref), assumed=assumed, not_before=context.not_before,
+            not_after=context.not_after,
         )
+        return exact_facts(use, component)
 
+    # -- certificates -------------------------------------------------------------------------
     def _certificate(self, ref: str, component: dict[str, Any], crypto: dict[str, Any],
                      context: _Context, depth: int) -> list[CryptoUse]:
         props = mapping_of(crypto.get("certificateProperties"))
-        trust = context.trust_years if context.trust_years is not None else validity_years(props)
-        inner = context.into(ref, purpose=Purpose.AUTHENTICATION, key_size=None, trust_years=trust)
+        dated = context.into(ref, not_before=date_of(props.get("notValidBefore")) or context.not_before,
+                             not_after=date_of(props.get("notValidAfter")) or context.not_after,
+                             key_size=None, curve=None)
+        signature, key = text_of(props.get("signatureAlgorithmRef")), text_of(props.get("subjectPublicKeyRef"))
+        if signature is None and key is None:
+            listed = self._children(ref, dated.into(ref, purpose=Purpose.AUTHENTICATION), depth)
+            name = text_of(component.get("name")) or ref
+            return listed or [self._unknown(dated, name, f"certificate '{ref}' names no signatureAlgorithmRef and no"
+                                          " subjectPublicKeyRef", ref, Purpose.AUTHENTICATION)]
         uses: list[CryptoUse] = []
-        for key in ("signatureAlgorithmRef", "subjectPublicKeyRef"):
-            target = text_of(props.get(key))
-            if target:
-                uses += self._expand(target, inner, depth + 1)
-        if not uses:
-            uses += self._children(ref, inner, depth)
-        name = text_of(component.get("name")) or ref
-        return uses or [self._unknown(inner, name, "certificate that names no signature algorithm or key", ref)]
+        # The signature on the certificate is made with the issuer's key and must hold while the
+        # certificate is trusted: a signature use, its trust period from the validity.
+        signed = dated.into(ref, purpose=Purpose.SIGNATURE)
+        if signature is None:
+            uses.append(self._unknown(signed, f"{text_of(component.get('name')) or ref} signature",
+                                      f"certificate '{ref}' names no signatureAlgorithmRef", ref))
+        elif signature not in self.assets:
+            uses.append(self._dangling(signed, f"certificate '{ref}' signatureAlgorithmRef", signature))
+        else:
+            signer, how = self.refs.issuer_key(ref)
+            if signer is not None and signer.problem is None:
+                signed = signed.into(ref, key_size=signer.key_size, curve=signer.curve)
+            signed = signed.noting(how if signer is None or signer.problem is None else
+                                   f"{how}, but {signer.problem}")
+            uses += self._expand(signature, signed, depth + 1)
+        served = dated.into(ref, purpose=Purpose.AUTHENTICATION)
+        if key is None:
+            uses.append(self._unknown(served, f"{text_of(component.get('name')) or ref} key",
+                                      f"certificate '{ref}' names no subjectPublicKeyRef", ref))
+        elif key not in self.assets:
+            uses.append(self._dangling(served, f"certificate '{ref}' subjectPublicKeyRef", key))
+        else:
+            uses += self._expand(key, served, depth + 1)
+        return uses
 
+    # -- protocols ------------------------------------------------------------------------------
     def _protocol(self, ref: str, component: dict[str, Any], crypto: dict[str, Any],
                   context: _Context, depth: int) -> list[CryptoUse]:
         props = mapping_of(crypto.get("protocolProperties"))
@@ -257,14 +324,21 @@ class UseBuilder:
         label = label or text_of(component.get("name")) or ref
         own = properties_of(component).get("pqtriage:purpose")
         purpose = Purpose(own) if own in {p.value for p in Purpose} else context.purpose
-        inner = context.into(ref, protocol=label, key_size=None, purpose=purpose)
+        inner = context.into(ref, protocol=label, key_size=None, curve=None, purpose=purpose)
+        certificates = refs_of(props.get("cryptoRefArray"))
+        server_keys = [(c, self.refs.describe(c)) for c in certificates
+                       if mapping_of(mapping_of(self.assets.get(c, {})).get("cryptoProperties")).get("assetType")
+                       == "certificate"]
         uses: list[CryptoUse] = []
-        for suite in props.get("cipherSuites", []) if isinstance(props.get("cipherSuites"), list) else []:
-            uses += self._suite(ref, mapping_of(suite), inner, depth)
-        for member, purpose in IKE_PURPOSE.items():
+        suites = [mapping_of(s) for s in props.get("cipherSuites", []) if isinstance(props.get("cipherSuites"), list)]
+        for suite in suites:
+            uses += self._suite(ref, suite, inner, depth, server_keys)
+        if len(suites) == 1 and text_of(suites[0].get("name")) and uses:
+            uses[0] = exact_facts(uses[0], component)  # our own export: the suite's facts as they were
+        for member, member_purpose in IKE_PURPOSE.items():
             for target in refs_of(mapping_of(props.get("ikev2TransformTypes")).get(member)):
-                uses += self._expand(target, inner.into(ref, purpose=purpose), depth + 1)
-        for target in refs_of(props.get("cryptoRefArray")):
+                uses += self._expand(target, inner.into(ref, purpose=member_purpose), depth + 1)
+        for target in certificates:
             uses += self._expand(target, inner, depth + 1)
         for group in props.get("tlsGroups", []) if isinstance(props.get("tlsGroups"), list) else []:
             if text_of(group):
@@ -281,7 +355,8 @@ class UseBuilder:
         return uses or [self._unknown(inner, label or name, "protocol that names no cipher suite or algorithm",
                                       ref, Purpose.KEY_ESTABLISHMENT)]
 
-    def _suite(self, ref: str, suite: dict[str, Any], context: _Context, depth: int) -> list[CryptoUse]:
+    def _suite(self, ref: str, suite: dict[str, Any], context: _Context, depth: int,
+               server_keys: list[tuple[str, KeyFacts]]) -> list[CryptoUse]:
         parts = refs_of(suite.get("algorithms"))
         name = text_of(suite.get("name"))
         if not name:
@@ -289,19 +364,49 @@ class UseBuilder:
             for target in parts:
                 uses += self._expand(target, context, depth + 1)
             return uses
-        # A named suite is assessed whole (the catalog splits it); its parts supply curve and size.
-        curve, key_size = None, None
+        # A named suite is assessed whole (the catalog splits it); its parts give the key
+        # exchange's curve or group and the authentication key's size or curve.
+        exchange: KeyFacts | None = None
+        auth: KeyFacts | None = None
+        notes: list[str] = []
         for target in parts:
-            props = mapping_of(mapping_of(self.assets.get(target, {}).get("cryptoProperties"))
-                               .get("algorithmProperties"))
-            curve = curve or text_of(props.get("curve")) or text_of(props.get("ellipticCurve"))
-            param = text_of(props.get("parameterSetIdentifier"))
-            if key_size is None and props.get("primitive") in _ASYMMETRIC and param and param.isdigit() \
-                    and len(param) < 6 and not text_of(props.get("curve")):
-                key_size = int(param)
-        return [CryptoUse(context.purpose or Purpose.KEY_ESTABLISHMENT, name, key_size=key_size, curve=curve,
-                          protocol=context.protocol, source=self.source(context, ref))]
+            facts = self.refs.describe(target)
+            if facts.problem is not None:
+                notes.append(f"suite {name}: {facts.problem}")
+                continue
+            if facts.role == "key-exchange" and exchange is None:
+                exchange = facts
+            elif facts.role == "authentication" and auth is None:
+                auth = facts
+        if (auth is None or (auth.key_size is None and auth.curve is None)) and server_keys:
+            certificate, key = server_keys[0]
+            if key.problem is None and (key.key_size or key.curve):
+                auth = key
+                notes.append(f"authentication key {key.algorithm} from certificate '{certificate}' of the protocol")
+        extra: list[CryptoUse] = []
+        curve = exchange.curve if exchange else None
+        sizes = [f.key_size for f in (auth, exchange) if f is not None and f.key_size]
+        key_size = min(sizes) if sizes else None
+        if len(set(sizes)) > 1:
+            notes.append(f"key exchange and authentication sizes differ ({', '.join(map(str, sizes))}):"
+                         " the smaller is rated")
+        if auth is not None and auth.curve:
+            if curve is None:
+                curve = auth.curve
+            elif auth.curve.casefold() != curve.casefold():  # the suite name gives one curve: rate the key apart
+                extra.append(CryptoUse(Purpose.AUTHENTICATION, auth.algorithm, curve=auth.curve, oid=auth.oid,
+                                       protocol=context.protocol, source=self.source(context, auth.path[-1]),
+                                       notes=f"authentication key of {name} (curve {auth.curve}, the key exchange"
+                                             f" uses {curve})"))
+        for found in (exchange, auth):
+            if found is not None and (found.key_size or found.curve):
+                notes.append(f"{'key exchange' if found is exchange else 'authentication'} from"
+                             f" {' > '.join(found.path)}")
+        use = CryptoUse(context.purpose or Purpose.KEY_ESTABLISHMENT, name, key_size=key_size, curve=curve,
+                        protocol=context.protocol, source=self.source(context, ref), notes=_notes(*notes))
+        return [use, *extra]
 
+    # -- keys and other material ----------------------------------------------------------------
     def _material(self, ref: str, component: dict[str, Any], crypto: dict[str, Any],
                   context: _Context, depth: int) -> list[CryptoUse]:
         props = mapping_of(crypto.get("relatedCryptoMaterialProperties"))
@@ -316,10 +421,12 @@ class UseBuilder:
         inner = context.into(ref, purpose=purpose, key_size=size or context.key_size)
         target = text_of(props.get("algorithmRef"))
         if target:
+            if target not in self.assets:
+                return [self._dangling(inner, f"key '{ref}' algorithmRef", target)]
             return self._expand(target, inner, depth + 1)
         uses = self._children(ref, inner, depth)
         name = text_of(component.get("name")) or ref
-        return uses or [self._unknown(inner, name, "key or other material that names no algorithm", ref)]
+        return uses or [self._unknown(inner, name, f"key '{ref}' names no algorithmRef", ref)]
 
     def _children(self, ref: str, context: _Context, depth: int) -> list[CryptoUse]:
         """Crypto assets the asset itself dependsOn, when its properties name none."""
@@ -328,6 +435,55 @@ class UseBuilder:
             if target in self.assets:
                 uses += self._expand(target, context, depth + 1)
         return uses
+
+
+def compose_name(name: str, props: dict[str, Any]) -> tuple[str, str | None]:
+    """The algorithm name with the mode or padding the CycloneDX properties add, and a note.
+
+    ``AES`` with ``mode: gcm`` is ``AES-GCM`` (the key size then picks AES-128-GCM ...);
+    ``RSA`` with ``padding: oaep`` is ``RSA-OAEP``. A name that already says it stays as it is.
+    """
+    if "mode" not in props and "padding" not in props:
+        return name, None
+    loose = re.sub(r"[-_/\s]+", "", name).casefold()
+    mode = text_of(props.get("mode"))
+    if mode and mode.casefold() in MODES_IN_NAME and mode.casefold() not in loose:
+        return f"{name}-{mode.upper()}", f"CycloneDX name '{name}' with mode {mode}"
+    padding = text_of(props.get("padding"))
+    if padding and padding.casefold() == "oaep" and loose in RSA_NAMES:
+        return "RSA-OAEP", f"CycloneDX name '{name}' with padding {padding}"
+    return name, None
+
+
+def exact_facts(use: CryptoUse, component: dict[str, Any]) -> CryptoUse:
+    """A use with the ``pqtriage:`` facts our own export wrote on its asset, where present."""
+    if "properties" not in component:
+        return use
+    own = properties_of(component)
+    if not any(f"pqtriage:{name}" in own for name in USE_PROPERTIES):
+        return use
+    changes: dict[str, Any] = {}
+    text = {name: own.get(f"pqtriage:{name}") for name in USE_PROPERTIES}
+    if text["algorithm"]:
+        changes["algorithm"] = text["algorithm"]
+    for name in ("curve", "parameter_set", "protocol", "notes"):  # written even when empty: "" is none
+        if f"pqtriage:{name}" in own:
+            changes[name] = text[name] or None
+    if "pqtriage:key_size" in own:
+        size = text["key_size"] or ""
+        changes["key_size"] = int(size) if size.isascii() and size.isdigit() and len(size) < 7 else None
+    if text["purpose"] in {p.value for p in Purpose}:
+        changes["purpose"] = Purpose(text["purpose"])
+    if _number(text["trust_years"]) is not None:
+        changes["trust_years"] = _number(text["trust_years"])
+    for name in ("not_before", "not_after"):
+        if text[name] is not None:
+            changes[name] = date_of(text[name])
+    if text["role"] in USE_ROLES:
+        changes["role"] = text["role"]
+    if text["assumed"] is not None:
+        changes["assumed"] = tuple(a for a in text["assumed"].split(",") if a)
+    return replace(use, **changes)
 
 
 def algorithm_purpose(props: dict[str, Any]) -> Purpose | None:
@@ -344,22 +500,13 @@ def algorithm_purpose(props: dict[str, Any]) -> Purpose | None:
     return None
 
 
-def validity_years(props: dict[str, Any]) -> float | None:
-    """Length of a certificate's validity in years, from notValidBefore and notValidAfter."""
-    try:
-        start = dt.datetime.fromisoformat(str(props["notValidBefore"]))  # 3.11+ reads a "Z" suffix
-        end = dt.datetime.fromisoformat(str(props["notValidAfter"]))
-    except (KeyError, ValueError):
-        return None
-    if start.tzinfo is None or end.tzinfo is None:
-        start, end = start.replace(tzinfo=None), end.replace(tzinfo=None)
-    years = (end - start).days / _DAYS_PER_YEAR
-    return round(years, 2) if 0 <= years <= 100 else None
-
-
 def _number(text: str | None) -> float | None:
     try:
         value = float(text) if text is not None else None
     except ValueError:
         return None
     return value if value is not None and 0 <= value <= 100 else None
+
+
+__all__ = ["Positions", "UseBuilder", "algorithm_purpose", "compose_name", "exact_facts",
+           "mapping_of", "properties_of", "refs_of", "text_of"]

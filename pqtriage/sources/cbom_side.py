@@ -84,6 +84,8 @@ def parse_side_file(text: str, path: str) -> CbomSideFile:
     if root is None:
         return CbomSideFile(path=path)
     reader = _Reader(path)
+    if not isinstance(root.value, dict):
+        raise reader.fail(root, f"the CBOM side file must be a mapping of fields, got {type(root.value).__name__}")
     raw = reader.mapping(root, _TOP, "the CBOM side file")
     top = reader.fields(root, _TOP, "the CBOM side file", optional=True)
     defaults: dict[str, Any] = {}
@@ -98,6 +100,7 @@ def parse_side_file(text: str, path: str) -> CbomSideFile:
         for key, entry in node.value.items():
             systems[key] = reader.fields(entry, SIDE_SYSTEM_FIELDS, f"side-file system '{key[:80]}'",
                                          optional=True)
+    reader.finish()
     return CbomSideFile(
         path=path,
         organization=top.get("organization"),

@@ -6,10 +6,30 @@ import hashlib
 import os
 import stat
 from abc import ABC, abstractmethod
+from collections.abc import Callable
+from dataclasses import dataclass
 
-from pqtriage.errors import InventoryError, Place
-from pqtriage.model.inventory import Inventory
+from pqtriage.errors import InventoryError, InventoryProblems, Place, Problem
+from pqtriage.model.inventory import CryptoUse, Inventory
 from pqtriage.yamlio import MAX_FILE_BYTES, decode_text
+
+
+@dataclass(frozen=True)
+class FieldProblem:
+    """A problem with one field of a use, found by a check outside the reader (the catalog's)."""
+
+    field: str
+    """The use's field it concerns (algorithm, curve ...)."""
+    message: str
+    """What is wrong."""
+    hint: str | None = None
+    """What to do about it."""
+    error: bool = True
+    """An error stops the run; otherwise a warning (an error under ``check --strict``)."""
+
+
+UseCheck = Callable[[CryptoUse], list[FieldProblem]]
+"""Checks one use as read (for example its algorithm name against the catalog)."""
 
 
 class InventorySource(ABC):
@@ -25,6 +45,39 @@ class InventorySource(ABC):
     @abstractmethod
     def parse(self, text: str, path: str, sha256: str | None = None) -> Inventory:
         """Build an Inventory; raise InventoryError naming file:line:column on bad input."""
+
+    def read(self, text: str, path: str, sha256: str | None = None, check: UseCheck | None = None) -> Inventory:
+        """Parse, then run ``check`` on every use: errors are collected and raised together.
+
+        Sources that know each field's position (the YAML reader, the spreadsheets) override
+        this to report at the field and together with their own problems.
+        """
+        inventory = self.parse(text, path, sha256)
+        return apply_check(inventory, check)
+
+
+def apply_check(inventory: Inventory, check: UseCheck | None) -> Inventory:
+    """Run a use check on a read inventory, placing problems at each use's position."""
+    if check is None:
+        return inventory
+    from dataclasses import replace
+
+    problems: list[Problem] = []
+    warnings = list(inventory.warnings)
+    for system in inventory.systems:
+        for use in system.uses:
+            for found in check(use):
+                ref = use.source
+                place = Place(ref.file if ref else (inventory.source_path or "inventory"),
+                              ref.line if ref else None, ref.column if ref else None)
+                problem = Problem(place, found.message, found.hint)
+                if found.error:
+                    problems.append(problem)
+                else:
+                    warnings.append(problem.line())
+    if problems:
+        raise InventoryProblems(problems)
+    return replace(inventory, warnings=tuple(warnings))
 
 
 def read_input(path: str, limit: int | None = None) -> tuple[bytes, str]:

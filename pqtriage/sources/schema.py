@@ -9,7 +9,15 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any
 
-from pqtriage.model.inventory import USE_ROLES, Criticality, Exposure, Purpose
+from pqtriage.model.inventory import (
+    USE_ROLES,
+    Criticality,
+    Exposure,
+    HostingModel,
+    Impact,
+    KeyStorage,
+    Purpose,
+)
 
 MAX_SHELF_LIFE_YEARS = 100.0
 """Longest shelf-life accepted: beyond a century the number is a typo, not a plan."""
@@ -29,6 +37,21 @@ POLICY_CATEGORIES = (
 """CNSA 2.0 system categories (NSA CNSA 2.0, 2022; FAQ 2024)."""
 VENDOR_READINESS = ("available", "announced", "unknown")
 """Post-quantum support from the vendor: available now, announced, or unknown."""
+FORMAT_VERSIONS = (1,)
+"""Inventory format versions this pqtriage reads."""
+FIPS_140_LEVELS = tuple(f"fips140-{edition}-l{level}" for edition in (1, 2, 3) for level in (1, 2, 3, 4))
+"""FIPS 140 edition and security level of a validated module, spelled as CycloneDX 1.6
+(ECMA-424) certificationLevel spells them (FIPS 140-2 and FIPS 140-3 define levels 1 to 4)."""
+MAX_SENSITIVITY_RANK = 10
+"""Highest sensitivity rank of a data classification (the organisation's own scale, 0 = public)."""
+IDENTIFIER = r"^[a-z0-9][a-z0-9._-]*$"
+"""Policy frameworks and extra keys: lower-case letters, digits, '.', '_' and '-'."""
+EXTRA_KEY = r"^[A-Za-z][A-Za-z0-9_-]*$"
+"""Keys of a system's ``extra`` mapping (the organisation's own fields)."""
+COUNTRY = r"^[A-Z]{2}$"
+"""ISO 3166-1 alpha-2 country code (DE, FR, US ...)."""
+CMVP_CERTIFICATE = r"^#?[0-9]{1,6}$"
+"""A NIST CMVP validation certificate number (4282 or #4282)."""
 
 
 @dataclass(frozen=True)
@@ -38,7 +61,8 @@ class FieldSpec:
     name: str
     """Key as written in YAML."""
     kind: str
-    """str, number, integer, enum, date, string-list, field-list, uses or systems."""
+    """str, number, integer, bool, enum, date, string-list, identifier-list, field-list, mapping,
+    extra, uses, systems or defaults."""
     description: str
     """What the field means, shown in the JSON Schema and docs."""
     required: bool = False
@@ -53,6 +77,14 @@ class FieldSpec:
     """Accepted values of an enum."""
     defaultable: bool = False
     """Whether the file's ``defaults`` section may supply it."""
+    pattern: str | None = None
+    """Regular expression a text value (or each list entry) must match."""
+    pattern_hint: str | None = None
+    """What the pattern asks for, in words, for messages."""
+    fields: tuple[FieldSpec, ...] = ()
+    """The sub-fields of a ``mapping`` field."""
+    ordered: bool = False
+    """Whether an enum's choices run from least to most (filters may compare them)."""
 
     def below_minimum(self, value: float) -> bool:
         """Whether a number is under the field's lower bound."""
@@ -80,6 +112,15 @@ USE_FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("trust_years", "number", "How long signatures or integrity tags made here must stay "
               "unforgeable (years).", minimum=0, maximum=MAX_SHELF_LIFE_YEARS),
     FieldSpec("protocol", "str", "Protocol carrying the use (TLS 1.3, SSH, IPsec ...)."),
+    FieldSpec("protocol_version", "str", "Version of that protocol, when not in its name (1.3, 2 ...)."),
+    FieldSpec("key_storage", "enum", "Where this use's key is kept (overrides the system's).",
+              choices=tuple(k.value for k in KeyStorage)),
+    FieldSpec("crypto_library", "str", "Cryptographic library doing this operation (overrides the system's)."),
+    FieldSpec("crypto_module", "str", "Validated cryptographic module doing it (overrides the system's)."),
+    FieldSpec("fips_140_certificate", "str", "CMVP certificate number of that module (overrides the system's).",
+              pattern=CMVP_CERTIFICATE, pattern_hint="a CMVP certificate number such as 4282"),
+    FieldSpec("fips_140_level", "enum", "FIPS 140 edition and level of that module (overrides the system's).",
+              choices=FIPS_140_LEVELS, ordered=True),
     FieldSpec("notes", "str", "Free text."),
     FieldSpec("source", "str", "Where the use was found (file and block, host:port)."),
     FieldSpec("assumed", "field-list", "Fields whose values are defaults, not facts."),
@@ -89,6 +130,20 @@ USE_FIELDS: tuple[FieldSpec, ...] = (
               "(YYYY-MM-DD)."),
     FieldSpec("not_after", "date", "End of validity of the certificate the use rests on "
               "(YYYY-MM-DD)."),
+    FieldSpec("oid", "str", "Object identifier of the algorithm (1.2.840.113549.1.1.11 ...), when the "
+              "source gives one: resolved first; a name that contradicts it is unassessed."),
+)
+
+DATA_CLASSIFICATION_FIELDS: tuple[FieldSpec, ...] = (
+    FieldSpec("label", "str", "The organisation's own label (Confidential, Restricted ...).", required=True),
+    FieldSpec("rank", "integer", f"Sensitivity on the organisation's scale: 0 (public) to {MAX_SENSITIVITY_RANK}"
+              " (most sensitive).", minimum=0, maximum=MAX_SENSITIVITY_RANK),
+)
+HOSTING_FIELDS: tuple[FieldSpec, ...] = (
+    FieldSpec("model", "enum", "Where it runs.", required=True, choices=tuple(h.value for h in HostingModel)),
+    FieldSpec("provider", "str", "Cloud or hosting provider."),
+    FieldSpec("country", "str", "Country where it runs or its data is kept (ISO 3166-1 alpha-2).",
+              pattern=COUNTRY, pattern_hint="a two-letter ISO 3166-1 code in capitals (DE, FR, US ...)"),
 )
 
 SYSTEM_FIELDS: tuple[FieldSpec, ...] = (
@@ -115,6 +170,33 @@ SYSTEM_FIELDS: tuple[FieldSpec, ...] = (
               minimum=0, maximum=100_000, defaultable=True),
     FieldSpec("vendor_readiness", "enum", "Planning: post-quantum support from the vendor.",
               choices=VENDOR_READINESS, defaultable=True),
+    FieldSpec("business_unit", "str", "Business unit or department the system belongs to.", defaultable=True),
+    FieldSpec("tags", "string-list", "Labels of the organisation's own, for filtering and grouping."),
+    FieldSpec("impact", "enum", "FIPS 199 impact level of the system (low, moderate, high).",
+              choices=tuple(i.value for i in Impact), defaultable=True, ordered=True),
+    FieldSpec("high_value_asset", "bool", "Whether the system is a high-value asset (OMB M-19-03).",
+              defaultable=True),
+    FieldSpec("data_classification", "mapping", "Classification of its data: a label and a sensitivity rank.",
+              defaultable=True, fields=DATA_CLASSIFICATION_FIELDS),
+    FieldSpec("hosting", "mapping", "Where it runs: on-premises, cloud or hybrid, provider, country.",
+              defaultable=True, fields=HOSTING_FIELDS),
+    FieldSpec("vendor", "str", "Vendor of the product, or the team that builds it."),
+    FieldSpec("product", "str", "Product name."),
+    FieldSpec("version", "str", "Product version (text: 2.10 stays 2.10)."),
+    FieldSpec("protocol_version", "str", "Version of the main protocol, when not in its name."),
+    FieldSpec("crypto_library", "str", "Cryptographic library it uses (name and version)."),
+    FieldSpec("crypto_module", "str", "Validated cryptographic module it uses."),
+    FieldSpec("fips_140_certificate", "str", "CMVP certificate number of that module.",
+              pattern=CMVP_CERTIFICATE, pattern_hint="a CMVP certificate number such as 4282"),
+    FieldSpec("fips_140_level", "enum", "FIPS 140 edition and level of that module.",
+              choices=FIPS_140_LEVELS, ordered=True),
+    FieldSpec("key_storage", "enum", "Where its keys are kept.", choices=tuple(k.value for k in KeyStorage),
+              defaultable=True),
+    FieldSpec("frameworks", "identifier-list", "Policy frameworks that apply to this system (replaces the "
+              "file's list): us-federal, cnsa-2.0, eu, uk, canada, australia, germany-bsi, france-anssi ...",
+              pattern=IDENTIFIER, pattern_hint="lower-case letters, digits, '.', '_' or '-'"),
+    FieldSpec("extra", "extra", "The organisation's own fields: a mapping of names to text, numbers or "
+              "true/false.", pattern=EXTRA_KEY, pattern_hint="a letter, then letters, digits, '_' or '-'"),
     FieldSpec("source", "str", "Where the system was found (folder, host)."),
     FieldSpec("assumed", "field-list", "Fields whose values are defaults, not facts."),
     FieldSpec("uses", "uses", "Every cryptographic use of the system.", required=True),
@@ -124,6 +206,9 @@ TOP_FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("version", "integer", "Format version; must be 1.", required=True, minimum=1, maximum=1),
     FieldSpec("organization", "str", "Organisation the inventory describes.", required=True),
     FieldSpec("policies", "string-list", "Policy timelines that apply (nist-ir-8547, cnsa2 ...)."),
+    FieldSpec("frameworks", "identifier-list", "Policy frameworks that apply to every system unless it names "
+              "its own: us-federal, cnsa-2.0, eu, uk, canada, australia, germany-bsi, france-anssi ...",
+              pattern=IDENTIFIER, pattern_hint="lower-case letters, digits, '.', '_' or '-'"),
     FieldSpec("defaults", "defaults", "Values applied to every system that does not set them."),
     FieldSpec("systems", "systems", "The systems.", required=True),
 )
@@ -131,10 +216,20 @@ TOP_FIELDS: tuple[FieldSpec, ...] = (
 DEFAULTABLE: tuple[FieldSpec, ...] = tuple(f for f in SYSTEM_FIELDS if f.defaultable)
 
 
+def field_named(fields: tuple[FieldSpec, ...], name: str) -> FieldSpec:
+    """The spec of the field with this name (KeyError if absent)."""
+    for spec in fields:
+        if spec.name == name:
+            return spec
+    raise KeyError(name)
+
+
 def _field_schema(spec: FieldSpec) -> dict[str, Any]:
     schema: dict[str, Any]
     if spec.kind == "str":
-        schema = {"type": "string"}
+        schema = {"type": "string", "minLength": 1}
+        if spec.pattern:
+            schema["pattern"] = spec.pattern
     elif spec.kind in ("number", "integer"):
         schema = {"type": spec.kind}
         if spec.minimum is not None:
@@ -143,10 +238,19 @@ def _field_schema(spec: FieldSpec) -> dict[str, Any]:
             schema["maximum"] = spec.maximum
     elif spec.kind == "enum":
         schema = {"type": "string", "enum": list(spec.choices)}
+    elif spec.kind == "bool":
+        schema = {"type": "boolean"}
     elif spec.kind == "date":
         schema = {"type": "string", "format": "date"}
     elif spec.kind == "string-list":
         schema = {"type": "array", "items": {"type": "string"}}
+    elif spec.kind == "identifier-list":
+        schema = {"type": "array", "items": {"type": "string", "pattern": spec.pattern}}
+    elif spec.kind == "mapping":
+        schema = _object(spec.fields)
+    elif spec.kind == "extra":
+        schema = {"type": "object", "propertyNames": {"pattern": spec.pattern},
+                  "additionalProperties": {"type": ["string", "number", "boolean"]}}
     elif spec.kind == "field-list":
         schema = {"type": "array", "items": {"type": "string"}}
     elif spec.kind == "uses":
@@ -179,6 +283,8 @@ def json_schema() -> dict[str, Any]:
     # Defaultable fields may come from the file's defaults section instead.
     system["required"] = [f.name for f in SYSTEM_FIELDS if f.required and not f.defaultable]
     schema = _object(TOP_FIELDS)
+    # Any version is read far enough to say which versions exist; the schema names the one there is.
+    schema["properties"]["version"]["enum"] = list(FORMAT_VERSIONS)
     schema.update(
         {
             "$schema": "https://json-schema.org/draft/2020-12/schema",

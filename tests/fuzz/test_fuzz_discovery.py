@@ -8,9 +8,9 @@ ProbeFailure (the failure as data). Formats: RFC 7468 (PEM), ITU-T X.690 (DER), 
 (PKCS#12), sshd(8) AUTHORIZED_KEYS FILE FORMAT and SSH_KNOWN_HOSTS FILE FORMAT, RFC 4253
 sections 4.2, 6 and 7.1 (identification, binary packet, KEXINIT), RFC 4251 section 5.
 
-TLS: the probe hands every peer byte to OpenSSL through pyOpenSSL; pqtriage has no TLS record
-parser of its own to fuzz (tests/hostile/test_discovery_hostile.py sends garbage, stalls and
-resets to the real probe instead).
+TLS: the probe hands every peer byte to OpenSSL through pyOpenSSL (tests/hostile/
+test_discovery_hostile.py sends garbage, stalls and resets to the real probe instead); the
+capture reader's own TLS record parser is fuzzed in tests/fuzz/test_fuzz_finders.py.
 """
 
 from __future__ import annotations

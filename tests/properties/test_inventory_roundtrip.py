@@ -24,7 +24,8 @@ def comparable(inventory: Inventory) -> tuple:
         uses = tuple(dataclasses.replace(u, source=None) for u in system.uses)
         details = tuple(_detail(u.source) for u in system.uses)
         systems.append((dataclasses.replace(system, uses=uses, source=None), details, _detail(system.source)))
-    return inventory.organization, inventory.version, inventory.policies, tuple(systems)
+    return (inventory.organization, inventory.version, inventory.policies, inventory.frameworks,
+            tuple(systems))
 
 
 @settings(max_examples=150, deadline=None)

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import copy
+import datetime as dt
 import json
 from pathlib import Path
 
@@ -59,8 +60,9 @@ def test_every_asset_type_becomes_uses(tmp_path: Path) -> None:
     assert _uses(inventory, "app-booking") == [
         # protocol: the named cipher suite, curve and RSA size taken from its algorithms
         ("key-establishment", "TLS_ECDHE_RSA_WITH_AES_128_GCM_SHA256", 2048, "secp256r1", "TLS 1.2"),
-        # certificate: its signature algorithm and its subject key (related material, size 3072)
-        ("authentication", "sha256WithRSAEncryption", None, None, None),
+        # certificate: the issuer's signature on it (the issuing CA is not in the BOM, so the
+        # signing key's size is unknown) and its subject key (related material, size 3072)
+        ("signature", "sha256WithRSAEncryption", None, None, None),
         ("authentication", "RSA", 3072, None, None),
     ]
     assert _uses(inventory, "app-ticket-api") == [
@@ -69,12 +71,16 @@ def test_every_asset_type_becomes_uses(tmp_path: Path) -> None:
         ("encryption", "AES-128-GCM", 128, None, "IKE 2"),
         # algorithm the catalog does not know: kept, purpose from its primitive
         ("encryption", "Kuznyechik", None, None, None),
-        # related-crypto-material secret key: its algorithm with the material's size
-        ("encryption", "AES", 256, None, None),
+        # related-crypto-material secret key: its algorithm (AES, mode cbc) with the material's size
+        ("encryption", "AES-CBC", 256, None, None),
     ]
     assert _uses(inventory, "lib-cryptokit") == [("encryption", "ChaCha20-Poly1305", None, None, None)]
-    # Certificate validity 2026-01-01 to 2028-01-01 (730 days) is the signature's trust period.
-    assert inventory.system("app-booking").uses[1].trust_years == pytest.approx(730 / 365.25, abs=0.01)
+    # Certificate validity 2026-01-01 to 2028-01-01: kept as dates; the signature's trust period is
+    # what remains of it at the triage date.
+    signature, key = inventory.system("app-booking").uses[1:3]
+    assert (signature.not_before, signature.not_after) == (dt.date(2026, 1, 1), dt.date(2028, 1, 1))
+    assert signature.trust_years is None and key.not_after == dt.date(2028, 1, 1)
+    assert "whose certificate is not in the BOM" in (signature.notes or "")
 
 
 def test_each_use_keeps_its_bom_ref_and_line(tmp_path: Path) -> None:
@@ -265,3 +271,22 @@ def test_duplicate_bom_ref_is_refused_at_its_line(tmp_path: Path) -> None:
     # Reported at the second one: the bom-ref of components[3]: the place of the error.
     second = next(n for n, line in enumerate(text.splitlines(), 1) if n > first and '"bom-ref": "alg-rsa"' in line)
     assert f"scan.cdx.json:{second}:" in caught.value.diagnostics()
+
+
+def test_non_ascii_digits_in_a_size_are_not_read_as_numbers() -> None:
+    """str.isdigit() is true for superscripts such as '¹', which int() refuses: a size written
+    that way stays text (the use is unassessed), never a crash. Found by the CBOM round-trip
+    property test (tests/formats/test_cbom_roundtrip.py)."""
+    bom = {
+        "bomFormat": "CycloneDX", "specVersion": "1.6", "version": 1,
+        "metadata": {"component": {"type": "application", "bom-ref": "app", "name": "app"}},
+        "components": [{
+            "type": "cryptographic-asset", "bom-ref": "k", "name": "RSA",
+            "cryptoProperties": {"assetType": "algorithm",
+                                 "algorithmProperties": {"parameterSetIdentifier": "\u00b9"}},
+        }],
+        "dependencies": [{"ref": "app", "dependsOn": ["k"]}],
+    }
+    inventory = CycloneDxSource().parse(json.dumps(bom), "bom.json")
+    uses = [u for s in inventory.systems for u in s.uses]
+    assert [u.key_size for u in uses] == [None]

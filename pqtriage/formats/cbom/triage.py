@@ -5,12 +5,19 @@ Mapping (docs/interop.md, "CBOM export"):
 - each system is a component of type ``application`` whose bom-ref is the system id; its
   shelf-life, migration time, exposure ... and its verdict, rank and start-by date are
   ``pqtriage:*`` properties (the CBOM import reads the inventory facts back);
-- each use is a ``cryptographic-asset`` component (bom-ref ``<system>#use-<n>``): an
+- each use is a ``cryptographic-asset`` component (bom-ref ``<system>#use-<n>``, made unique
+  against every other bom-ref of the BOM whatever the ids: :class:`_Refs`): an
   ``algorithm`` with ``classicalSecurityLevel`` (NIST SP 800-57 Part 1 Rev. 5 Table 2 strength
   from the catalog) and ``nistQuantumSecurityLevel`` (the NIST PQC security category; 0 for an
   algorithm Shor's algorithm breaks, as CycloneDX defines 0 as "none of the categories met"),
   or, for a TLS cipher suite, a ``protocol`` whose suite refers to one algorithm per part;
 - ``dependencies``: system -> its uses and the systems it depends on; suite -> its parts.
+- every fact that decides a use's verdict is written twice: in the standard fields where
+  CycloneDX has one (name, oid, parameterSetIdentifier, curve, primitive) and exactly, as
+  ``pqtriage:<field>`` properties (algorithm as written, key_size, curve, parameter_set, purpose,
+  trust_years, not_before, not_after, role, protocol, notes), which the CBOM import reads back
+  first. So a hash inside a composite name (the SHA-1 of ``ssh-rsa``), a hybrid, a size, a
+  validity or an offered role survive the round trip.
 
 Same inputs give the same bytes: the serial number is a UUID 5 of the inventory's SHA-256,
 the as-of date and the profile, and the only timestamp is the as-of date.
@@ -26,8 +33,15 @@ from typing import Any
 from pqtriage import __version__
 from pqtriage.catalog.spec import AlgorithmSpec
 from pqtriage.formats.interface import ResultFormat
-from pqtriage.model.inventory import System
+from pqtriage.model.inventory import IN_USE, CryptoUse, System
 from pqtriage.model.verdict import SystemAssessment, TriageResult, UseAssessment
+from pqtriage.sources.cbom_fields import (
+    certification_level,
+    key_asset,
+    system_component_fields,
+    system_properties,
+    use_properties,
+)
 
 SPEC_VERSION = "1.6"
 SCHEMA_URL = "http://cyclonedx.org/schema/bom-1.6.schema.json"
@@ -55,6 +69,14 @@ def _properties(pairs: list[tuple[str, object]]) -> list[dict[str, str]]:
             if value is not None and value != "" and value != ()]
 
 
+def _exact(pairs: list[tuple[str, object]]) -> list[dict[str, str]]:
+    """Facts written even when empty where the import would otherwise read a standard field
+    (an empty ``pqtriage:key_size`` says "no key size", not "take parameterSetIdentifier")."""
+    always = ("key_size", "curve", "parameter_set")
+    return [{"name": PREFIX + name, "value": "" if value is None else _text(value)} for name, value in pairs
+            if name in always or (value is not None and value != "")]
+
+
 def _levels(spec: AlgorithmSpec | None) -> dict[str, Any]:
     if spec is None:
         return {"primitive": "unknown"}
@@ -69,15 +91,19 @@ def _levels(spec: AlgorithmSpec | None) -> dict[str, Any]:
 
 
 def _algorithm_asset(ref: str, spec: AlgorithmSpec | None, name: str, parameter: str | None,
-                     curve: str | None, properties: list[dict[str, str]]) -> dict[str, Any]:
+                     curve: str | None, properties: list[dict[str, str]], oid: str | None = None,
+                     certification: list[str] | None = None) -> dict[str, Any]:
     algorithm = _levels(spec)
     if parameter:
         algorithm["parameterSetIdentifier"] = parameter
     if curve:
         algorithm["curve"] = curve
+    if certification:
+        algorithm["certificationLevel"] = certification
     crypto: dict[str, Any] = {"assetType": "algorithm", "algorithmProperties": algorithm}
-    if spec is not None and spec.identifiers.get("oid"):
-        crypto["oid"] = spec.identifiers["oid"]
+    oid = oid or (spec.identifiers.get("oid") if spec is not None else None)
+    if oid:
+        crypto["oid"] = oid
     component: dict[str, Any] = {"type": "cryptographic-asset", "bom-ref": ref, "name": name,
                                  "cryptoProperties": crypto}
     if properties:
@@ -85,31 +111,70 @@ def _algorithm_asset(ref: str, spec: AlgorithmSpec | None, name: str, parameter:
     return component
 
 
+class _Refs:
+    """bom-refs unique in the whole BOM: system ids first, then each use and part ref, with a
+    ``~<k>`` suffix when the natural ref is taken (system ``a`` use 1 and a system ``a#use-1``)."""
+
+    def __init__(self, reserved: set[str]):
+        self.taken = set(reserved)
+
+    def claim(self, wanted: str) -> str:
+        ref, k = wanted, 1
+        while ref in self.taken:
+            k += 1
+            ref = f"{wanted}~{k}"
+        self.taken.add(ref)
+        return ref
+
+
+def _use_facts(use: CryptoUse) -> list[tuple[str, object]]:
+    """The use's own facts, exactly (read back first by the CBOM import)."""
+    return [
+        ("algorithm", use.algorithm), ("purpose", use.purpose.value),
+        ("key_size", use.key_size), ("curve", use.curve), ("parameter_set", use.parameter_set),
+        ("trust_years", use.trust_years),
+        ("not_before", use.not_before.isoformat() if use.not_before else None),
+        ("not_after", use.not_after.isoformat() if use.not_after else None),
+        ("role", use.role if use.role != IN_USE else None), ("protocol", use.protocol), ("notes", use.notes),
+    ]
+
+
 def _use_properties(system: System, item: UseAssessment) -> list[dict[str, str]]:
     spec = item.deciding or item.spec
-    return _properties([
-        ("system", system.id), ("algorithm", item.use.algorithm), ("purpose", item.use.purpose.value),
+    facts = _use_facts(item.use)
+    return _properties([("system", system.id), *facts[:2]]) + _exact(facts[2:]) + _properties([
         ("verdict", item.verdict.value), ("reason", item.reason),
         ("exposure_probability", None if item.exposure_probability is None else round(item.exposure_probability, 4)),
         ("start_by", item.start_by.isoformat() if item.start_by else None),
-        ("replacement", item.replacement), ("trust_years", item.use.trust_years),
+        ("replacement", item.replacement),
         ("classical_status", spec.classical_status if spec else None),
         ("quantum_attack", spec.quantum_attack if spec else None),
         ("deciding_component", item.deciding.name if item.deciding else None),
         ("assumed", ",".join(item.use.assumed)),
+        *use_properties(item.use),
     ])
 
 
-def _use_components(system: System, item: UseAssessment, ref: str) -> tuple[list[dict[str, Any]], list[str]]:
+def _use_components(system: System, item: UseAssessment, ref: str,
+                    refs_of: _Refs) -> tuple[list[dict[str, Any]], list[str]]:
     use, spec = item.use, item.spec
     parameter = use.parameter_set or (str(use.key_size) if use.key_size else None)
     properties = _use_properties(system, item)
+    certification = certification_level(use, system)
     if spec is None or spec.primitive != "cipher-suite" or not spec.components:
         name = spec.name if spec else use.algorithm
-        return [_algorithm_asset(ref, spec, name, parameter, use.curve, properties)], []
+        if use.key_storage is None:
+            return [_algorithm_asset(ref, spec, name, parameter, use.curve, properties, use.oid, certification)], []
+        # Where the key is kept is a key's securedBy: the key asset carries the use, its
+        # algorithmRef the algorithm; both carry the use's facts (the import reads the algorithm's).
+        algorithm_ref = f"{ref}.alg"
+        inner = properties
+        key = key_asset(ref, algorithm_ref, use, name)
+        key["properties"] = properties
+        return [key, _algorithm_asset(algorithm_ref, spec, name, parameter, use.curve, inner, use.oid, certification)], []
     parts, refs = [], []
     for index, component in enumerate(spec.components, start=1):
-        part_ref = f"{ref}.{index}"
+        part_ref = refs_of.claim(f"{ref}.{index}")
         part = component.spec
         curve = use.curve if part.shor_problem == "elliptic-curve-dlog" else None
         size = str(use.key_size) if use.key_size and part.shor_problem in ("factoring", "finite-field-dlog") else None
@@ -119,7 +184,9 @@ def _use_components(system: System, item: UseAssessment, ref: str) -> tuple[list
     label = (use.protocol or "").split()
     protocol: dict[str, Any] = {"type": _PROTOCOL_TYPE.get(label[0].lower(), "other") if label else (
         "tls" if spec.name.startswith("TLS_") else "other")}
-    if len(label) > 1:
+    if use.protocol_version:
+        protocol["version"] = use.protocol_version
+    elif len(label) > 1:
         protocol["version"] = label[1]
     protocol["cipherSuites"] = [{"name": spec.name, "algorithms": refs}]
     suite = {"type": "cryptographic-asset", "bom-ref": ref, "name": use.protocol or spec.name,
@@ -131,6 +198,7 @@ def _use_components(system: System, item: UseAssessment, ref: str) -> tuple[list
 def _system_component(item: SystemAssessment) -> dict[str, Any]:
     system = item.system
     component: dict[str, Any] = {"type": "application", "bom-ref": system.id, "name": system.name}
+    component.update(system_component_fields(system))
     if system.description:
         component["description"] = system.description
     component["properties"] = _properties([
@@ -143,6 +211,9 @@ def _system_component(item: SystemAssessment) -> dict[str, Any]:
         ("owner", system.owner), ("policy_category", system.policy_category),
         ("vendor_readiness", system.vendor_readiness), ("effort_person_weeks", system.effort_person_weeks),
         ("notes", system.notes), ("assumed", ",".join(system.assumed)),
+        # The import appends a component's version to its name: the exact name, when it has one.
+        ("name", system.name if system.version else None),
+        *system_properties(system),
     ])
     return component
 
@@ -152,13 +223,14 @@ def cbom_dict(result: TriageResult) -> dict[str, Any]:
     components: list[dict[str, Any]] = []
     dependencies: list[dict[str, Any]] = []
     ids = {item.system.id for item in result.items}
+    refs = _Refs(ids)
     for item in sorted(result.items, key=lambda i: i.rank):
         components.append(_system_component(item))
         use_refs: list[str] = []
         part_edges: list[dict[str, Any]] = []
         for index, use in enumerate(item.uses, start=1):
-            ref = f"{item.system.id}#use-{index}"
-            made, parts = _use_components(item.system, use, ref)
+            ref = refs.claim(f"{item.system.id}#use-{index}")
+            made, parts = _use_components(item.system, use, ref, refs)
             components += made
             use_refs.append(ref)
             if parts:
@@ -174,6 +246,7 @@ def cbom_dict(result: TriageResult) -> dict[str, Any]:
             ("organization", result.inventory.organization), ("as_of", result.as_of.isoformat()),
             ("profile", result.profile.name), ("risk_tolerance", result.profile.risk_tolerance),
             ("inventory_sha256", result.inventory.source_sha256),
+            ("view", result.selection.describe() if result.selection else None),
         ] + [(f"count:{verdict.value}", n) for verdict, n in summary.counts.items()]),
     }
     body: dict[str, Any] = {"$schema": SCHEMA_URL, "bomFormat": "CycloneDX", "specVersion": SPEC_VERSION,

@@ -73,6 +73,11 @@ def row(item: SystemAssessment) -> list[str]:
     ]
 
 
+def group_header(field: str) -> str:
+    """Header of the group column: "group (owner)" (a reader of inventories reads past it)."""
+    return f"group ({field})"
+
+
 class CsvFormat(ResultFormat):
     """Ranked systems as RFC 4180 CSV (CRLF line ends, quoted where needed)."""
 
@@ -81,7 +86,18 @@ class CsvFormat(ResultFormat):
     def render(self, result: TriageResult) -> str:
         buffer = io.StringIO()
         writer = csv.writer(buffer, lineterminator="\r\n")  # RFC 4180 section 2: CRLF
-        writer.writerow(COLUMNS)
-        for item in result.items:
-            writer.writerow(row(item))
+        selection = result.selection
+        if selection is None or selection.group_by is None:
+            writer.writerow(COLUMNS)
+            for item in result.items:
+                writer.writerow(row(item))
+            return buffer.getvalue()
+        from pqtriage.model.view import groups
+
+        # Grouped: the group's value first, rows by group then rank (a system with several
+        # tags or frameworks is on one row per group).
+        writer.writerow((group_header(selection.group_by), *COLUMNS))
+        for label, items in groups(result, selection.group_by):
+            for item in items:
+                writer.writerow([csv_cell(label), *row(item)])
         return buffer.getvalue()

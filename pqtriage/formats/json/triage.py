@@ -44,6 +44,14 @@ def use_dict(item: UseAssessment) -> dict[str, Any]:
         "trust_years": item.use.trust_years,
         "not_before": item.use.not_before.isoformat() if item.use.not_before else None,
         "not_after": item.use.not_after.isoformat() if item.use.not_after else None,
+        "oid": item.use.oid,
+        "protocol": item.use.protocol,
+        "protocol_version": item.use.protocol_version,
+        "key_storage": _enum(item.use.key_storage),
+        "crypto_library": item.use.crypto_library,
+        "crypto_module": item.use.crypto_module,
+        "fips_140_certificate": item.use.fips_140_certificate,
+        "fips_140_level": item.use.fips_140_level,
         "classical_bits": spec.classical_bits if spec else None,
         "classical_status": spec.classical_status if spec else None,
         "quantum_attack": spec.quantum_attack if spec else None,
@@ -63,6 +71,33 @@ def use_dict(item: UseAssessment) -> dict[str, Any]:
         "suggestions": list(item.suggestions),
         "assumptions": list(item.assumptions),
         "source": _source(item.use.source),
+    }
+
+
+def _enum(value: Any) -> Any:
+    return None if value is None else value.value
+
+
+def guidance_fields(system: Any) -> dict[str, Any]:
+    """The fields official guidance asks for (docs/inventory-format.md), as the inventory gives them."""
+    classification = system.data_classification
+    hosting = system.hosting
+    return {
+        "business_unit": system.business_unit,
+        "tags": list(system.tags),
+        "impact": _enum(system.impact),
+        "high_value_asset": system.high_value_asset,
+        "data_classification": None if classification is None else
+        {"label": classification.label, "rank": classification.rank},
+        "hosting": None if hosting is None else
+        {"model": hosting.model.value, "provider": hosting.provider, "country": hosting.country},
+        "vendor": system.vendor, "product": system.product, "version": system.version,
+        "protocol": system.protocol, "protocol_version": system.protocol_version,
+        "crypto_library": system.crypto_library, "crypto_module": system.crypto_module,
+        "fips_140_certificate": system.fips_140_certificate, "fips_140_level": system.fips_140_level,
+        "key_storage": _enum(system.key_storage),
+        "frameworks": None if system.frameworks is None else list(system.frameworks),
+        "extra": dict(system.extra),
     }
 
 
@@ -86,10 +121,30 @@ def system_dict(item: SystemAssessment) -> dict[str, Any]:
         "owner": system.owner,
         "depends_on": list(system.depends_on),
         "policy_category": system.policy_category,
+        **guidance_fields(system),
         "assumed": list(system.assumed),
         "source": _source(system.source),
         "uses": [use_dict(u) for u in item.uses],
     }
+
+
+def selection_dict(result: TriageResult) -> dict[str, Any]:
+    """What the view shows (--where, --top, --group-by), with the groups' system ids."""
+    selection = result.selection
+    assert selection is not None
+    out: dict[str, Any] = {
+        "where": selection.where, "top": selection.top, "group_by": selection.group_by,
+        "total_systems": selection.total, "matched_systems": selection.matched,
+        "shown_systems": len(result.items), "hidden_unassessed": selection.hidden_unassessed,
+        "shown_counts": {v.value: n for v, n in selection.counts.items()},
+        "description": selection.describe(),
+    }
+    if selection.group_by:
+        from pqtriage.model.view import groups
+
+        out["groups"] = [{"value": label, "systems": [i.system.id for i in items]}
+                         for label, items in groups(result, selection.group_by)]
+    return out
 
 
 def result_dict(result: TriageResult, with_items: bool = True) -> dict[str, Any]:
@@ -104,6 +159,7 @@ def result_dict(result: TriageResult, with_items: bool = True) -> dict[str, Any]
             "file": result.inventory.source_path,
             "sha256": result.inventory.source_sha256,
             "organization": result.inventory.organization,
+            "frameworks": list(result.inventory.frameworks),
             "warnings": list(result.inventory.warnings),
         },
         "profile": {
@@ -132,6 +188,7 @@ def result_dict(result: TriageResult, with_items: bool = True) -> dict[str, Any]
             "overdue": list(summary.overdue),
             "earliest_start_by": summary.earliest_start_by.isoformat() if summary.earliest_start_by else None,
         },
+        **({"selection": selection_dict(result)} if result.selection else {}),
         "items": [system_dict(i) for i in result.items] if with_items else [],
         "arrivals": [
             {"algorithm": a.algorithm, "crqc_year": _number(a.crqc_year, 2),

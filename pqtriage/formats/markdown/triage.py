@@ -119,9 +119,25 @@ def executive_summary(result: TriageResult) -> list[str]:
 
 
 def ranked_table(result: TriageResult) -> list[str]:
-    """The ranked table, one row per system."""
+    """The ranked table, one row per system (one table per group with --group-by)."""
+    selection = result.selection
+    if selection is None or selection.group_by is None:
+        return _ranked_rows(result, result.items, "## Ranked systems")
+    from pqtriage.model.view import groups
+
+    lines = ["## Ranked systems", ""]
+    found = groups(result, selection.group_by)
+    for index, (label, items) in enumerate(found):
+        count = f"{len(items)} system" + ("" if len(items) == 1 else "s")
+        lines += _ranked_rows(result, items, f"### {md(selection.group_by)}: {md(label)} ({count})",
+                              legend=index == len(found) - 1)
+    return lines
+
+
+def _ranked_rows(result: TriageResult, items: Sequence[SystemAssessment], heading: str,
+                 legend: bool = True) -> list[str]:
     rows = []
-    for item in result.items:
+    for item in items:
         weakest = item.weakest
         rows.append([
             str(item.rank),
@@ -135,12 +151,14 @@ def ranked_table(result: TriageResult) -> list[str]:
             VERDICT_LABEL[item.verdict],
             md(short_replacement(weakest.replacement if weakest else None)),
         ])
-    lines = ["## Ranked systems", ""]
+    lines = [heading, ""]
     lines += _table(
         ["#", "System", "Weakest use", "Purpose", "x (y)", "y (y)", "Start by", "P(exposed)", "Verdict", "Replace with"],
         rows,
     )
     lines.append("")
+    if not legend:
+        return lines
     lines.append("Verdicts: " + "; ".join(f"**{VERDICT_LABEL[v]}**: {VERDICT_MEANING[v]}" for v in Verdict) + ".")
     if result.band is not None:
         lines.append("")
@@ -275,6 +293,9 @@ def render_report(result: TriageResult, extra_sections: Sequence[str] = ()) -> s
     lines.append("")
     lines.append("> **Caution.** " + md(CAUTIONS[0]) + " " + md(CAUTIONS[2]))
     lines.append("")
+    if result.selection is not None:
+        lines.append("> **View.** " + md(result.selection.describe()))
+        lines.append("")
     lines += executive_summary(result)
     lines += ranked_table(result)
     lines += ["## System detail", ""]

@@ -180,6 +180,7 @@ def sarif_log(result: TriageResult) -> dict[str, Any]:
                 "profile": visible(result.profile.name),
                 "organization": visible(result.inventory.organization),
                 "inventorySha256": result.inventory.source_sha256,
+                **({"view": visible(result.selection.describe())} if result.selection else {}),
             },
         }],
     }

@@ -27,8 +27,13 @@ def summary_block(result: TriageResult, top: int | None = None) -> Text:
             text.append(", ")
         text.append(label, style=style)
     text.append("\n")
-    if top is not None and top < summary.systems:
-        text.append(f"Showing the top {top} of {summary.systems} systems.\n")
+    selection = result.selection
+    if selection is not None and (selection.where or selection.group_by):
+        text.append(cell(selection.describe(), 4 * MAX_CELL_CHARACTERS) + "\n", style="yellow" if selection.hidden_unassessed else "")
+    else:
+        top = selection.top if selection is not None else top
+        if top is not None and top < summary.systems:
+            text.append(f"Showing the top {top} of {summary.systems} systems.\n")
     if summary.overdue:
         shown = ", ".join(cell(s, 60) for s in summary.overdue[:8])
         more = f" and {len(summary.overdue) - 8} more" if len(summary.overdue) > 8 else ""

@@ -93,10 +93,13 @@ def _row(item: SystemAssessment, as_of: object) -> list[RenderableType]:
     ]
 
 
-def ranked_table(result: TriageResult, top: int | None = None) -> Table:
-    """The ranked table: one row per system, most urgent first."""
+def ranked_table(result: TriageResult, top: int | None = None, group: str | None = None,
+                 items: tuple[SystemAssessment, ...] | None = None) -> Table:
+    """The ranked table: one row per system, most urgent first (one group's rows if given)."""
+    title = (f"Post-quantum triage of {cell(result.inventory.organization, MAX_CELL_CHARACTERS)}"
+             if group is None else group)
     table = Table(
-        title=Text(f"Post-quantum triage of {cell(result.inventory.organization, MAX_CELL_CHARACTERS)}"),
+        title=Text(title),
         caption=Text(f"as of {result.as_of.isoformat()}, profile {cell(result.profile.name, MAX_CELL_CHARACTERS)}"
                      + ("; dim: 10-90 % band (latest start-by, P range); ranked by the central value"
                         if result.band is not None else "")),
@@ -115,12 +118,21 @@ def ranked_table(result: TriageResult, top: int | None = None) -> Table:
     table.add_column("P(exp)", justify="right", no_wrap=True)
     table.add_column("Verdict", no_wrap=True)
     table.add_column("Replace with", overflow="fold", min_width=10)
-    items = result.items if top is None else result.items[:top]
-    for item in items:
+    rows = result.items if items is None else items
+    for item in rows if top is None else rows[:top]:
         table.add_row(*_row(item, result.as_of))
     return table
 
 
 def terminal_view(result: TriageResult, top: int | None = None) -> RenderableType:
-    """Table plus summary, ready for Console.print."""
-    return Group(ranked_table(result, top), summary_block(result, top))
+    """Table (one per group with --group-by) plus summary, ready for Console.print."""
+    selection = result.selection
+    if selection is None or selection.group_by is None:
+        return Group(ranked_table(result, top), summary_block(result, top))
+    from pqtriage.model.view import groups
+
+    tables: list[RenderableType] = []
+    for label, items in groups(result, selection.group_by):
+        count = f"{len(items)} system" + ("" if len(items) == 1 else "s")
+        tables.append(ranked_table(result, None, f"{selection.group_by}: {cell(label, MAX_CELL_CHARACTERS)} ({count})", items))
+    return Group(*tables, summary_block(result))

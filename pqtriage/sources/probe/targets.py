@@ -47,7 +47,7 @@ def _split_host_port(text: str, default_port: int | None, original: str) -> tupl
         if default_port is None:
             raise UsageError(f"probe target {original!r} has no port", hint="write host:443")
         port = default_port
-    elif port_text.isdigit() and 0 < int(port_text) < 65536:
+    elif port_text.isascii() and port_text.isdigit() and 0 < int(port_text) < 65536:
         port = int(port_text)
     else:
         raise UsageError(f"probe target {original!r}: port must be a number from 1 to 65535")

@@ -187,7 +187,50 @@ def inventory_dict(
 def render(document: Mapping[str, Any], output_format: str = "yaml") -> str:
     """Inventory document as YAML (block style, key order kept) or JSON text."""
     if output_format == "json":
-        # ensure_ascii: lone surrogates (undecodable file names) become \udcXX escapes, and no
-        # control or bidi character reaches a terminal that shows the file.
-        return json.dumps(document, indent=2, ensure_ascii=True) + "\n"
+        return render_json(document)
+    # One pass, hidden characters escaped (pqtriage.sources.yaml_stream).
     return dump_document(document)
+
+
+_USE_ENCODER = json.JSONEncoder(ensure_ascii=True, check_circular=False)
+"""One encoder for every use (json.dumps with options builds a new encoder on each call)."""
+
+
+def render_json(document: Mapping[str, Any]) -> str:
+    """JSON with one use per line: indented like ``indent=2`` down to the uses, each use on one
+    line, ASCII only (a lone surrogate of an undecodable file name becomes ``\\udcXX``, and no
+    control or bidi character reaches a terminal that shows the file). The same data; the uses
+    go through the C encoder, so large scans (hundreds of
+    thousands of uses) are written in a fraction of the time the indenting encoder takes."""
+    systems = document.get("systems")
+    if not isinstance(systems, list) or not all(isinstance(s, Mapping) for s in systems):
+        return json.dumps(document, indent=2, ensure_ascii=True) + "\n"
+
+    def value(item: Any, depth: int) -> str:
+        text = json.dumps(item, indent=2, ensure_ascii=True)
+        return text.replace("\n", "\n" + "  " * depth)
+
+    lines = ["{"]
+    head = [(k, v) for k, v in document.items() if k != "systems"]
+    for key, item in head:
+        lines.append(f"  {json.dumps(key)}: {value(item, 1)},")
+    lines.append('  "systems": [' if systems else '  "systems": []')
+    for index, system in enumerate(systems):
+        lines.append("    {")
+        fields = [(k, v) for k, v in system.items() if k != "uses"]
+        uses = system.get("uses")
+        for number, (key, item) in enumerate(fields):
+            last = number == len(fields) - 1 and "uses" not in system
+            lines.append(f"      {json.dumps(key)}: {value(item, 3)}" + ("" if last else ","))
+        if isinstance(uses, list) and uses:
+            lines.append('      "uses": [')
+            encode = _USE_ENCODER.encode
+            lines.append(",\n".join(["        " + encode(use) for use in uses]))
+            lines.append("      ]")
+        elif "uses" in system:
+            lines.append(f'      "uses": {value(uses, 3)}')
+        lines.append("    }" + ("," if index < len(systems) - 1 else ""))
+    if systems:
+        lines.append("  ]")
+    lines.append("}")
+    return "\n".join(lines) + "\n"

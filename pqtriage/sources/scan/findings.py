@@ -35,6 +35,14 @@ class FindingKind(str, Enum):
     SSH_HOST_KEY = "ssh-host-key"
     SSH_CIPHER = "ssh-cipher"
     SSH_MAC = "ssh-mac"
+    CONFIG_SETTING = "config-setting"
+    """An algorithm a configuration file enables (nginx, sshd_config, swanctl.conf ...)."""
+    KEYSTORE_ENCRYPTED = "keystore-encrypted"
+    """A keystore present but unread: no password, or the password did not open it."""
+    SOURCE_CALL = "source-call"
+    """A call in source code that chooses an algorithm."""
+    TRAFFIC = "traffic"
+    """An algorithm offered or chosen in a captured TLS or SSH handshake."""
     DAMAGED = "damaged"
     """Material recognised as cryptographic but corrupt or truncated: kept as an unknown use."""
 
@@ -55,11 +63,19 @@ class ProblemKind(str, Enum):
     WARNING = "warning"
     """Read, but a library warned about it (a certificate serial number that is not positive):
     the item is kept, the warning is noted beside it."""
+    NOT_UNDERSTOOD = "not understood"
+    """A file of a kind a finder reads (by name or content) whose content it could not use."""
 
 
 #: Problems that mean something could not be read (exit code 1); skips are notes only.
 FAILURE_KINDS = frozenset(
-    {ProblemKind.UNREADABLE, ProblemKind.CORRUPT, ProblemKind.TRUNCATED, ProblemKind.UNREACHABLE}
+    {
+        ProblemKind.UNREADABLE,
+        ProblemKind.CORRUPT,
+        ProblemKind.TRUNCATED,
+        ProblemKind.UNREACHABLE,
+        ProblemKind.NOT_UNDERSTOOD,
+    }
 )
 
 

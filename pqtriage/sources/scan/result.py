@@ -13,7 +13,8 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
-from pqtriage.errors import EXIT_FINDINGS, EXIT_OK, InventoryError, ScanError, UsageError
+from pqtriage.errors import EXIT_FINDINGS, EXIT_OK, InventoryError, Place, ScanError, UsageError
+from pqtriage.sources.roundtrip import dump_round_trip, is_round_trip
 from pqtriage.sources.scan.emit import (
     ASSUMED_SYSTEM_FIELDS,
     DEFAULT_EXPOSURE,
@@ -46,6 +47,8 @@ class CommandResult:
     """Path the inventory was written to, if any."""
     read: frozenset[tuple[int, int]] = frozenset()
     """(device, inode) of every file the run read: ``-o`` may not name one of them."""
+    scan_summary: dict[str, Any] | None = None
+    """Per-finder counts and the files not understood (scan only), as plain data for JSON."""
 
 
 def check_format(output_format: str) -> None:
@@ -63,18 +66,27 @@ def check_years(shelf_life_years: float, migration_years: float) -> None:
                          f"{MAX_MIGRATION_YEARS:g} years", hint="a migration takes time: for example 0.5")
 
 
-def load_existing(merge: str) -> Any:
-    """The inventory given to --merge, as plain YAML data (an empty file is an empty inventory)."""
-    # The bounded reader of every inventory (size, values, depth, aliases): a hostile file given
-    # to --merge gets the same one-line errors as one given to triage.
+def load_existing_text(merge: str) -> tuple[Any, str]:
+    """The inventory given to --merge with its comments and layout (an empty file is an empty
+    inventory), and its text; refused like any inventory if it is hostile."""
     from pqtriage.sources.interface import read_inventory_text
-    from pqtriage.yamlio import load_yaml, plain
+    from pqtriage.sources.roundtrip import load_round_trip
 
-    text, _ = read_inventory_text(merge)
-    document = plain(load_yaml(text, merge, InventoryError))
+    try:
+        text, _ = read_inventory_text(merge)
+    except InventoryError as error:
+        raise InventoryError(f"cannot read the inventory to merge into: {error.message}",
+                             place=error.place or Place(merge),
+                             hint=error.hint or "check the path given to --merge") from error
+    document = load_round_trip(text, merge)
     if document is None:
         document = {"version": 1, "organization": DEFAULT_ORGANIZATION, "systems": []}
-    return document
+    return document, text
+
+
+def load_existing(merge: str) -> Any:
+    """The inventory given to --merge, as YAML data keeping its comments and layout."""
+    return load_existing_text(merge)[0]
 
 
 def assumed_line(systems: int, shelf_life: float, migration: float) -> str:
@@ -131,8 +143,14 @@ def finish_inventory(
     if private:
         summary.append(f"{private} private keys in plain files (type and size recorded only)")
     if merge is not None:
-        document, report = merge_inventory(load_existing(merge), document, in_scope)
+        existing, original = load_existing_text(merge)
+        document, report = merge_inventory(existing, document, in_scope)
         summary.extend(report.lines())
+        if output_format == "yaml" and is_round_trip(document):
+            # Comments, key order, flow or block style and blank lines of the file are kept.
+            text = dump_round_trip(document, original)
+            check_readable(text, len(findings))
+            return CommandResult(text, summary, EXIT_FINDINGS if failed else EXIT_OK)
     text = render(document, output_format)
     check_readable(text, len(findings))
     return CommandResult(text, summary, EXIT_FINDINGS if failed else EXIT_OK)

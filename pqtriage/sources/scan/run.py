@@ -21,6 +21,9 @@ from pqtriage.sources.scan.emit import (
     DEFAULT_ORGANIZATION,
     DEFAULT_SHELF_LIFE_YEARS,
 )
+from pqtriage.sources.scan.finders.interface import ArchiveLimits, FinderContext
+from pqtriage.sources.scan.finders.openssh_config import defaults_for, known_versions
+from pqtriage.sources.scan.finders.openssl_cli import system_expander
 from pqtriage.sources.scan.findings import Finding, FindingKind, ProblemKind, ScanProblem
 from pqtriage.sources.scan.grouping import GroupBy
 from pqtriage.sources.scan.merge import path_scope
@@ -61,6 +64,10 @@ def scan_inventory(
     max_file_bytes: int = DEFAULT_MAX_FILE_BYTES,
     progress: Progress | None = None,
     as_of: dt.date | None = None,
+    keystore_passwords: tuple[bytes, ...] = (),
+    keystore_password_file: str | None = None,
+    openssh_version: str | None = None,
+    archive_limits: ArchiveLimits | None = None,
 ) -> CommandResult:
     """Scan files and folders for keys and certificates and return an inventory.
 
@@ -75,6 +82,11 @@ def scan_inventory(
         max_file_bytes: larger files are skipped with a note.
         progress: reports progress (the CLI's progress bar); None reports nothing.
         as_of: date the remaining validity of certificates is counted from (default today).
+        keystore_passwords: passwords to try on keystores and PKCS#12 bundles (never shown).
+        keystore_password_file: file whose first line is one more such password.
+        openssh_version: OpenSSH version whose defaults apply to sshd_config / ssh_config
+            files that do not state one.
+        archive_limits: bounds on archives (depth, total size, members).
     """
     check_format(output_format)
     rule = _group_rule(group_by)
@@ -84,33 +96,52 @@ def scan_inventory(
         if not os.path.lexists(path):
             raise UsageError(f"{path}: no such file or folder", hint="check the path")
     check_years(shelf_life_years, migration_years)
-    password = _read_password(password_file)
+    passwords = [p for p in (_read_password(password_file),
+                             _read_password(keystore_password_file)) if p is not None]  # fmt: skip
+    passwords += [p for p in keystore_passwords if p not in passwords]
+    if openssh_version is not None and defaults_for(openssh_version, "sshd") is None:
+        raise UsageError(
+            f"no shipped defaults for OpenSSH {openssh_version!r}",
+            hint="use one of " + ", ".join(known_versions()),
+        )
+    context = FinderContext(
+        passwords=tuple(passwords),
+        expand_cipher_string=system_expander(),
+        openssh_version=openssh_version,
+        limits=archive_limits or ArchiveLimits(),
+    )
     entries, walk_problems = plan(list(paths), max_file_bytes)
     with (progress or _no_progress)(len(entries)) as advance:
-        result = scan_entries(entries, walk_problems, password, max_file_bytes, advance)
-    summary = [
-        (
-            f"scan: {result.files_read} files read, {result.files_with_material} with key or "
-            "certificate material"
+        result = scan_entries(
+            entries, walk_problems, None, max_file_bytes, advance, context=context
         )
+    summary = [
+        result.summary.headline(result.files_read)
+        if result.summary is not None
+        else f"scan: {result.files_read} files read"
     ]
+    if result.summary is not None:
+        summary.extend(result.summary.lines({problem.place for problem in result.problems}))
     summary.extend(problem.line() for problem in result.problems)
     summary.extend(_problem_counts(result.problems))
-    done = finish_inventory(
+    inventory = finish_inventory(
         list(result.findings) + damaged_findings(result.problems), rule, organization, shelf_life_years, migration_years, merge,
         path_scope(list(paths)), output_format, summary, not result.complete,
         as_of=as_of or dt.date.today(),
     )  # fmt: skip
+    details = result.summary.to_dict() if result.summary is not None else {}
+    details["files_read"] = result.files_read
     read = frozenset(entry.identity for entry in entries if entry.identity is not None)
-    return dataclasses.replace(done, read=read)
+    return dataclasses.replace(inventory, scan_summary=details, read=read)
 
 
 def damaged_findings(problems: tuple[ScanProblem, ...] | list[ScanProblem]) -> list[Finding]:
-    """Corrupt or truncated material stays in the inventory as an unknown use (unassessed in
-    triage), so nothing found is dropped; unreadable files and skips stay notes only."""
+    """Corrupt or truncated material, and files a finder claimed but could not understand,
+    stay in the inventory as unknown uses (unassessed in triage), so nothing found is dropped;
+    unreadable files and skips stay notes only."""
     found = []
     for problem in problems:
-        if problem.kind not in (ProblemKind.CORRUPT, ProblemKind.TRUNCATED):
+        if problem.kind not in (ProblemKind.CORRUPT, ProblemKind.TRUNCATED, ProblemKind.NOT_UNDERSTOOD):
             continue
         path, _, detail = problem.place.partition("#")
         found.append(Finding(

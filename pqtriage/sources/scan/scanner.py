@@ -9,11 +9,15 @@ case they are reported as corrupt.
 from __future__ import annotations
 
 import dataclasses
+import os
 import warnings
-from collections.abc import Callable, Iterable
+from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass
 
-from pqtriage.sources.scan.der import MATERIAL_SUFFIXES, parse_der
+from pqtriage.sources.scan.finders import default_finders
+from pqtriage.sources.scan.finders.dispatch import Dispatcher, ScanSummary
+from pqtriage.sources.scan.finders.interface import Finder, FinderContext
+from pqtriage.sources.scan.finders.openssl_cli import system_expander
 from pqtriage.sources.scan.findings import (
     Finding,
     ParseOutcome,
@@ -21,13 +25,8 @@ from pqtriage.sources.scan.findings import (
     ScanProblem,
 )
 from pqtriage.sources.scan.issuers import link_issuers
-from pqtriage.sources.scan.jwks import looks_like_jwk, parse_jwks
-from pqtriage.sources.scan.openssh import parse_openssh_text
-from pqtriage.sources.scan.pem import has_pem, parse_pem
-from pqtriage.sources.scan.pkcs12 import looks_like_pkcs12, parse_pkcs12
+from pqtriage.sources.scan.recognise import material_name_fallback, recognise
 from pqtriage.sources.scan.walker import DEFAULT_MAX_FILE_BYTES, FileEntry, read_file, walk
-
-_SSH_HINTS = (b"ssh-", b"ecdsa-sha2-", b"sk-")
 
 
 @dataclass(frozen=True)
@@ -42,6 +41,8 @@ class ScanResult:
     """Regular files read."""
     files_with_material: int
     """Files in which at least one format was recognised."""
+    summary: ScanSummary | None = None
+    """What each finder saw, understood and could not understand."""
 
     @property
     def complete(self) -> bool:
@@ -50,47 +51,24 @@ class ScanResult:
 
 
 def classify(data: bytes, path: str, password: bytes | None = None) -> ParseOutcome:
-    """Recognise one file's format and describe what it holds. Pure: bytes in, data out.
-
-    Warnings the libraries raise while parsing (the cryptography library on a serial number
-    that is not positive, RFC 5280 section 4.1.2.2) are recorded, not printed: each becomes a
-    note on the file's findings and one summary line.
-    """
-    with warnings.catch_warnings(record=True) as caught:
-        warnings.simplefilter("always")
-        outcome = _classify(data, path, password)
-    if not caught:
+    """Recognise one file's format and describe what it holds. Pure: bytes in, data out."""
+    outcome = recognise(data, path, password)
+    if outcome.recognised:
         return outcome
+    return material_name_fallback(data, path)
+
+
+def warned(found: list[Finding], trouble: list[ScanProblem], path: str,
+           caught: list[warnings.WarningMessage]) -> tuple[list[Finding], list[ScanProblem]]:
+    """Warnings a library raised while one file was read (the cryptography library on a serial
+    number that is not positive, RFC 5280 section 4.1.2.2), recorded instead of printed: a note
+    on each of the file's findings and one summary line each."""
+    if not caught:
+        return found, trouble
     messages = list(dict.fromkeys(" ".join(str(w.message).split()) for w in caught))
     notes = tuple(f"library warning: {message}" for message in messages)
-    return dataclasses.replace(
-        outcome,
-        findings=tuple(dataclasses.replace(f, notes=f.notes + notes) for f in outcome.findings),
-        problems=outcome.problems + tuple(ScanProblem(path, ProblemKind.WARNING, m) for m in messages),
-    )
-
-
-def _classify(data: bytes, path: str, password: bytes | None) -> ParseOutcome:
-    if looks_like_pkcs12(data):
-        return parse_pkcs12(data, path, password)
-    if has_pem(data):
-        return parse_pem(data, path, password)
-    if data[:1] == b"\x30":
-        outcome = parse_der(data, path, password)
-        if outcome.recognised:
-            return outcome
-    if looks_like_jwk(data):
-        outcome = parse_jwks(data, path)
-        if outcome.recognised:
-            return outcome
-    if any(hint in data for hint in _SSH_HINTS):
-        outcome = parse_openssh_text(data.decode("utf-8", "replace"), path)
-        if outcome.recognised:
-            return outcome
-    if data and path.lower().endswith(MATERIAL_SUFFIXES):
-        problem = ScanProblem(path, ProblemKind.CORRUPT, "no recognised key or certificate")
-        return ParseOutcome(problems=(problem,), recognised=True)
-    return ParseOutcome()
+    return ([dataclasses.replace(f, notes=f.notes + notes) for f in found],
+            [*trouble, *(ScanProblem(path, ProblemKind.WARNING, m) for m in messages)])
 
 
 def plan(
@@ -110,24 +88,55 @@ def scan_entries(
     password: bytes | None = None,
     max_file_bytes: int = DEFAULT_MAX_FILE_BYTES,
     advance: Callable[[str], None] | None = None,
+    context: FinderContext | None = None,
+    finders: Sequence[Finder] | None = None,
 ) -> ScanResult:
-    """Read and classify each file; one file's failure never stops the scan."""
+    """Read each file and hand it to the finders; one file's failure never stops the scan."""
+    entries = list(entries)
+    if context is None:
+        context = FinderContext(
+            passwords=(password,) if password is not None else (),
+            expand_cipher_string=system_expander(),
+        )
+    dispatcher = Dispatcher(
+        finders if finders is not None else default_finders(),
+        context,
+        read_reference=lambda path: read_named_file(path, max_file_bytes),
+        fallback=material_name_fallback,
+    )
+    dispatcher.mark_seen([entry.path for entry in entries])
     findings: list[Finding] = []
     problems: list[ScanProblem] = list(walk_problems)
-    read = with_material = 0
+    read = 0
     for entry in entries:
         data = read_file(entry, max_file_bytes)
         if isinstance(data, ScanProblem):
             problems.append(data)
         else:
             read += 1
-            outcome = classify(data, entry.path, password)
-            findings.extend(outcome.findings)
-            problems.extend(outcome.problems)
-            with_material += outcome.recognised
+            with warnings.catch_warnings(record=True) as caught:
+                warnings.simplefilter("always")
+                found, trouble = dispatcher.run_file(data, entry.path)
+            found, trouble = warned(list(found), list(trouble), entry.path, caught)
+            findings.extend(found)
+            problems.extend(trouble)
         if advance is not None:
             advance(entry.path)
-    return ScanResult(tuple(link_issuers(findings)), tuple(problems), read, with_material)
+    summary = dispatcher.summary
+    understood = summary.understood
+    findings = dispatcher.link_facts(link_issuers(findings))
+    return ScanResult(tuple(findings), tuple(problems), read, understood, summary)
+
+
+def read_named_file(path: str, max_file_bytes: int = DEFAULT_MAX_FILE_BYTES) -> bytes | ScanProblem:
+    """Read a file a configuration names (the walk's rules: regular files within the limit)."""
+    if os.path.isdir(path):
+        return ScanProblem(path, ProblemKind.SKIPPED, "a folder, not a file")
+    for item in walk([path], max_file_bytes):
+        if isinstance(item, ScanProblem):
+            return item
+        return read_file(item, max_file_bytes)
+    return ScanProblem(path, ProblemKind.UNREADABLE, "no such file")
 
 
 def scan_paths(

@@ -1,0 +1,1 @@
+"""Workbook output (.xlsx, Office Open XML), written with openpyxl."""
