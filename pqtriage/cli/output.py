@@ -167,14 +167,17 @@ def _sync_folder(folder: Path, place: Place) -> None:
         os.close(descriptor)
 
 
-def _write_all(descriptor: int, data: bytes) -> None:
-    """os.write until every byte is written (a write may be partial)."""
-    view = memoryview(data)
-    while view:
-        written = os.write(descriptor, view[:_CHUNK])
-        if written <= 0:  # pragma: no cover - POSIX write returns > 0 or raises
-            raise OSError(errno.EIO, os.strerror(errno.EIO))
-        view = view[written:]
+def _write_all(descriptor: int, data: str | bytes) -> None:
+    """os.write until every byte is written (a write may be partial). Text is encoded a chunk at
+    a time, so a 200 MB report does not need a second 200 MB copy as bytes."""
+    for start in range(0, len(data), _CHUNK):
+        piece = data[start: start + _CHUNK]
+        view = memoryview(piece if isinstance(piece, bytes) else encode_output(piece))
+        while view:
+            written = os.write(descriptor, view)
+            if written <= 0:  # pragma: no cover - POSIX write returns > 0 or raises
+                raise OSError(errno.EIO, os.strerror(errno.EIO))
+            view = view[written:]
 
 
 def encode_output(text: str | bytes) -> bytes:
@@ -194,7 +197,6 @@ def write_atomic(path: str | Path, text: str | bytes,
     place = Place(str(path))
     target = output_target(path, inputs)
     folder = target.parent if str(target.parent) else Path(".")
-    data = encode_output(text)
     import tempfile  # here, not at module level: pqtriage --help never writes
 
     try:
@@ -206,7 +208,7 @@ def write_atomic(path: str | Path, text: str | bytes,
     open_handle: int | None = handle
     try:
         os.fchmod(handle, _mode_for(target))  # mkstemp makes 0600; keep what a plain write would give
-        _write_all(handle, data)
+        _write_all(handle, text)
         os.fsync(handle)
         open_handle = None
         os.close(handle)  # close can report a delayed write error (NFS): checked too
