@@ -19,7 +19,8 @@ sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 from bench.common import ROOT, child_env, machine_info
 
 SCRIPTS = ("bench_triage.py", "bench_band.py", "bench_csv.py", "bench_report.py", "bench_scan.py",
-           "bench_mixed_scan.py", "bench_cold_start.py", "bench_probe.py", "bench_cbom.py")
+           "bench_mixed_scan.py", "bench_cold_start.py", "bench_probe.py", "bench_cbom.py",
+           "bench_scheduler.py")
 """One script per figure, in the order of the issue."""
 
 FIXES = {
@@ -42,6 +43,8 @@ FIXES = {
                   "the inventory straight from the findings without the intermediate dicts, would "
                   "bring the per-use cost down; most of the finders' share is making one finding per use",
     "Cold start": "move the imports named above from module level into the commands that use them",
+    "Scheduler on chains": "look for a step that visits every quarter or every waiting system; the "
+                           "scheduler must stay event-driven (pqtriage/plan/scheduler.py)",
     "TLS probe concurrency": "raise the worker count or make the probe's timeouts per connection, not global",
     "CBOM triage": "read the BOM in one pass that builds the uses while it parses (a streaming reader "
                    "in C, such as orjson with a small graph pass), and make the per-use triage objects "

@@ -106,6 +106,35 @@ class PqtriageError(Exception):
         return self.diagnostics()
 
 
+QUOTED_LIMIT = 120
+"""Longest input text quoted in a message (a 10 MB id is cut with an ellipsis)."""
+
+
+def quoted(text: object, limit: int = QUOTED_LIMIT) -> str:
+    """``'text'`` for a message, cut to ``limit`` characters with an ellipsis."""
+    value = str(text)
+    if len(value) > limit:
+        cut = value[: limit - 1]
+        space = cut.rfind(" ")
+        if space >= limit * 3 // 4:  # end at a word when one ends near the limit
+            cut = cut[:space]
+        value = cut.rstrip() + "…"
+    return f"'{value}'"
+
+
+def chain_text(ids: list[str], closed: bool = False, shown: int = 3) -> str:
+    """A chain of ids for a message: ``a -> b -> c``; a long one as its first and last members
+    and a count (``a -> b -> c -> ... -> y -> z (100,000 systems)``), so a cycle of 100,000
+    systems is one short line. ``closed`` repeats the first id at the end (a cycle)."""
+    names = [quoted(i, 60)[1:-1] for i in (ids[:shown] + ids[-shown:] if len(ids) > 2 * shown else ids)]
+    if closed:
+        names.append(names[0])
+    if len(ids) > 2 * shown:
+        text = " -> ".join(names[:shown]) + " -> ... -> " + " -> ".join(names[shown:])
+        return f"{text} ({len(ids):,} systems)"
+    return " -> ".join(names)
+
+
 class InventoryError(PqtriageError):
     """The inventory file cannot be read or does not follow the format."""
 

@@ -54,6 +54,8 @@ class Node:
     text: str | None = None
     """For a scalar that did not resolve to text (a number, a boolean, a date): the text as
     written, so text fields keep ``010`` or ``2.10`` as typed instead of YAML 1.1's reading."""
+    alias_of: int | None = None
+    """For an alias (``*name``): the line of its anchor; ``line`` and ``column`` are the alias's."""
 
 
 ErrorFactory = Callable[..., PqtriageError]
@@ -285,7 +287,9 @@ class _Builder:
                     raise self.too_many(event)
                 if len(stack) + height > MAX_DEPTH:
                     raise self.too_deep(event, alias=True)
-                node = Node(target.value, target.line, target.column, key[0], key[1], target.tag, target.text)
+                # The alias's own place: an error about this value is reported where it is used.
+                line, column = _position(event)
+                node = Node(target.value, line, column, key[0], key[1], target.tag, target.text, target.line)
             else:
                 assert isinstance(event, yaml.ScalarEvent)
                 if parent is not None and parent.mapping and parent.pending_key is None:

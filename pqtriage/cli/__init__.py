@@ -61,37 +61,79 @@ app.command("schema")(schema.schema)
 app.command("diff")(diff.diff)
 
 
+def print_error(text: str, label: str = "error") -> None:
+    """The CLI's one error printer: one line on stderr, input text neutralised.
+
+    Messages quote ids, file names and values from inputs, so the line goes through
+    pqtriage.formats.text.visible (escape sequences, bidi and invisible characters shown as
+    escapes) and is cut to a bounded length.
+    """
+    from pqtriage.formats.text import one_line
+
+    try:
+        sys.stderr.write(f"pqtriage: {label}: {one_line(text, MAX_ERROR_CHARACTERS)}\n")
+        sys.stderr.flush()
+    except OSError:  # stderr itself is gone: nothing left to tell
+        pass
+
+
+MAX_ERROR_CHARACTERS = 2000
+"""Longest error line: a 10 MB id quoted in a message is cut (with an ellipsis)."""
+
+
 def main(argv: Optional[list[str]] = None) -> int:
     """Entry point: run the app and map errors to documented exit codes."""
+    from pqtriage.cli.warnings_capture import captured_warnings
+
     command = typer.main.get_command(app)
     args = list(sys.argv[1:] if argv is None else argv)
     debug = "--debug" in args
     try:
-        code = command.main(args=args, prog_name="pqtriage", standalone_mode=False)
+        with captured_warnings(print_error):
+            code = command.main(args=args, prog_name="pqtriage", standalone_mode=False)
+        sys.stdout.flush()  # a full disk behind stdout shows here, not at interpreter exit
     except PqtriageError as exc:
         if debug:
             raise
         for line in exc.diagnostic_lines():
-            sys.stderr.write(f"pqtriage: error: {line}\n")
+            print_error(line)
+        if exc.exit_code == EXIT_INTERNAL:
+            from pqtriage.cli.output import quiet_stdout
+
+            quiet_stdout()
         return exc.exit_code
     except typer.Abort:
-        sys.stderr.write("pqtriage: aborted\n")
+        print_error("aborted", "error")
         return EXIT_INTERNAL
     except _click_errors.ClickException as exc:
         if debug:
             raise
-        sys.stderr.write(f"pqtriage: error: {' '.join(exc.format_message().split())}"
-                         " (see 'pqtriage --help')\n")
+        print_error(f"{exc.format_message()} (see 'pqtriage --help')")
         return EXIT_BAD_INPUT
     except BrokenPipeError:
+        from pqtriage.cli.output import quiet_stdout
+
+        quiet_stdout()
         return EXIT_OK
     except KeyboardInterrupt:
-        sys.stderr.write("pqtriage: interrupted\n")
+        print_error("interrupted")
+        return EXIT_INTERNAL
+    except OSError as exc:
+        if debug:
+            raise
+        from pqtriage.cli.output import WRITE_ERRNOS, quiet_stdout
+
+        if exc.errno in WRITE_ERRNOS and exc.filename is None:  # stdout or stderr failed
+            print_error(f"cannot write the output: {exc.strerror}; check the disk or pipe it goes to")
+            quiet_stdout()
+            return EXIT_INTERNAL
+        print_error(f"{type(exc).__name__}: {exc} (rerun with --debug for the traceback and report it)",
+                    "internal error")
         return EXIT_INTERNAL
     except Exception as exc:  # the one place internal failures are caught
         if debug:
             raise
-        sys.stderr.write(f"pqtriage: internal error: {type(exc).__name__}: {' '.join(str(exc).split())}"
-                         " (rerun with --debug for the traceback and report it)\n")
+        print_error(f"{type(exc).__name__}: {exc} (rerun with --debug for the traceback and report it)",
+                    "internal error")
         return EXIT_INTERNAL
     return code if isinstance(code, int) else EXIT_OK

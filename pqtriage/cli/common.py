@@ -7,6 +7,7 @@ imports only typer and the errors; everything heavier is imported inside the fun
 from __future__ import annotations
 
 import sys
+from collections.abc import Sequence
 from enum import Enum
 from typing import Any, Optional
 
@@ -29,6 +30,9 @@ WHERE_HELP = ("Show only systems matching this filter, e.g. \"criticality >= hig
 GROUP_BY_HELP = "Group the systems by this field: owner, business_unit, criticality, verdict, hosting.model, tags, extra.NAME ..."
 TOP_HELP = "Show only the N most urgent systems (after --where), in every format."
 CAPACITY_HELP = "Migrations in parallel (3), person-weeks per quarter (40pw), or both (3,40pw)."
+OUTPUT_HELP = ("Write to this file instead of stdout ('-' is stdout), atomically; a symbolic link is "
+               "written through to its target. Devices, pipes, folders and this run's input files "
+               "are refused.")
 
 
 class ResultFormatChoice(str, Enum):
@@ -138,19 +142,26 @@ def view_of(result: Any, where: Optional[str], top: Optional[int], group_by: Opt
     return select(result, parse_filter(where) if where is not None else None, top, field)
 
 
-def emit_bytes(data: bytes, output: Optional[str], what: str) -> None:
+def emit_bytes(data: bytes, output: Optional[str], what: str, inputs: Inputs = ()) -> None:
     """Write a binary output to -o FILE atomically, or to stdout when it is not a terminal."""
     if to_file(output):
         from pqtriage.cli.output import write_atomic
 
-        write_atomic(str(output), data)
+        write_atomic(str(output), data, inputs)
         return
     if sys.stdout.isatty():
         raise UsageError(f"{what} is a binary file: it is not printed on a terminal",
                          hint="give -o FILE, or redirect the output to a file")
-    sys.stdout.flush()
-    sys.stdout.buffer.write(data)
-    sys.stdout.buffer.flush()
+    from pqtriage.cli.output import stdout_failure
+
+    try:
+        sys.stdout.flush()
+        sys.stdout.buffer.write(data)
+        sys.stdout.buffer.flush()
+    except BrokenPipeError:
+        raise
+    except OSError as exc:
+        raise stdout_failure(exc) from exc
 
 
 def console(stderr: bool = False) -> Any:
@@ -176,25 +187,41 @@ def to_file(output: Optional[str]) -> bool:
     return bool(output and output != "-")
 
 
-def emit(text: str, output: Optional[str]) -> None:
-    """Write to -o FILE atomically, or to stdout."""
+Inputs = Sequence[Optional[str]]
+"""Paths of a run's input files: ``-o`` may not name any of them (pqtriage.cli.output)."""
+
+
+def emit(text: str, output: Optional[str], inputs: Inputs = ()) -> None:
+    """Write to -o FILE atomically, or to stdout (every write checked)."""
+    from pqtriage.cli.output import write_atomic, write_stdout
+
     if to_file(output):
-        from pqtriage.cli.output import write_atomic
-
-        write_atomic(str(output), text)
+        write_atomic(str(output), text, inputs)
     else:
-        sys.stdout.write(text)
-        sys.stdout.flush()
+        write_stdout(text)
 
 
-def echo(text: str, output: Optional[str]) -> None:
-    """Write to -o FILE atomically, or echo to stdout (ending in one newline)."""
-    if to_file(output):
-        from pqtriage.cli.output import write_atomic
+def echo(text: str, output: Optional[str], inputs: Inputs = ()) -> None:
+    """Like :func:`emit`, ending the text in one newline."""
+    emit(text if text.endswith("\n") else text + "\n", output, inputs)
 
-        write_atomic(str(output), text)
-    else:
-        typer.echo(text, nl=not text.endswith("\n"))
+
+def check_outputs(output: Optional[str], inputs: Inputs = (), *extra: Optional[str]) -> None:
+    """Refuse unusable -o targets (and files written beside them) before any work is done."""
+    from pqtriage.cli.output import output_target
+
+    for path in (output, *extra):
+        if to_file(path):
+            output_target(str(path), inputs)
+
+
+def profile_input(profile: Optional[str]) -> Optional[str]:
+    """The --profile value when it names a file (an input of the run), else None."""
+    if profile is None:
+        return None
+    from pathlib import Path
+
+    return profile if Path(profile).exists() else None
 
 
 def fail_code(result: Any, fail_on: Optional[VerdictChoice]) -> int:
@@ -216,32 +243,29 @@ def chart_path_for(output: str) -> str:
     return str(path.with_name(f"{path.stem}-timeline.svg"))
 
 
-def write_discovery(result: Any, output: Optional[str]) -> Any:
+def write_discovery(result: Any, output: Optional[str], inputs: Inputs = ()) -> Any:
     """Write a scan's or probe's inventory to -o FILE (atomically); the result names the file."""
-    if output is None:
+    if not to_file(output):
         return result
     from dataclasses import replace
 
     from pqtriage.cli.output import write_atomic
 
-    try:
-        write_atomic(output, result.text)
-    except OSError as error:
-        raise UsageError(
-            f"cannot write {output} ({error.strerror})", hint="check the folder exists"
-        ) from error
+    write_atomic(str(output), result.text, [*inputs, *getattr(result, "read", ())])
     return replace(result, written=output)
 
 
 def finish_discovery(result: Any) -> None:
-    """Print a scan's or probe's inventory (unless written) and summary, then exit with its code."""
-    text = result.text
-    if result.written is None:
-        sys.stdout.write(text)
+    """Print a scan's or probe's inventory (unless written) and summary, then exit with its code.
+
+    Summary lines carry file names, certificate subjects and SSH banners: each goes through
+    the one text neutraliser, so none can move or retitle the terminal.
+    """
+    from pqtriage.cli.output import write_stdout
     from pqtriage.formats.text import visible
 
+    if result.written is None:
+        write_stdout(result.text)
     for line in result.summary:
-        # Paths, archive member names and aliases come from the inputs: no escape code may
-        # reach the terminal (control and bidi characters are shown as \x.. escapes).
         sys.stderr.write(visible(line.rstrip("\n")) + "\n")
     raise typer.Exit(result.exit_code)

@@ -7,7 +7,15 @@ from typing import TYPE_CHECKING, Optional
 
 import typer
 
-from pqtriage.cli.common import HARDWARE_HELP, EstimateFormat, console
+from pqtriage.cli.common import (
+    HARDWARE_HELP,
+    OUTPUT_HELP,
+    EstimateFormat,
+    check_outputs,
+    console,
+    emit,
+    profile_input,
+)
 from pqtriage.errors import EXIT_OK, UsageError
 
 if TYPE_CHECKING:  # annotations only: --help must not load the estimator
@@ -86,14 +94,12 @@ def estimate(
     reaction_us: Optional[float] = typer.Option(None, "--reaction-us", help="Classical reaction time in microseconds (default: the hardware file's, 10)."),
     maxdepth: Optional[float] = typer.Option(None, "--maxdepth", help="log2 of MAXDEPTH, the serial depth limit for Grover (default 64)."),
     output_format: EstimateFormat = typer.Option(EstimateFormat.text, "--format", "-f", help="text or json."),
-    output: Optional[str] = typer.Option(None, "--output", "-o", help="Write to this file."),
+    output: Optional[str] = typer.Option(None, "--output", "-o", help=OUTPUT_HELP),
     profile: Optional[str] = typer.Option(None, "--profile", help="Threat profile for the arrival years."),
     as_of: Optional[str] = typer.Option(None, "--as-of", help="Assessment date YYYY-MM-DD for the years (default today)."),
     hardware: Optional[str] = typer.Option(None, "--hardware", help=HARDWARE_HELP),
 ) -> None:
     """Estimate the quantum resources that break an algorithm, and when it falls."""
-    import datetime as dt
-
     from pqtriage.catalog import load_catalog
     from pqtriage.model.band import make_design
     from pqtriage.model.profile import decimal_year
@@ -102,10 +108,11 @@ def estimate(
 
     if not all_ and not algorithm:
         raise UsageError("name an algorithm or pass --all", hint="for example: pqtriage estimate RSA-2048")
-    try:
-        day = dt.date.fromisoformat(as_of) if as_of else dt.date.today()
-    except ValueError as exc:
-        raise UsageError(f"--as-of {as_of!r} is not a date", hint="write YYYY-MM-DD, for example 2026-05-01") from exc
+    from pqtriage.pipeline import parse_as_of
+
+    day = parse_as_of(as_of)  # bounded: dates past the planning range leave the calendar
+    inputs = [profile_input(profile), hardware]
+    check_outputs(output, inputs)
     threat_profile = load_profile(profile)
     machine = load_hardware(hardware)
     base = machine.parameters(doubling_years=threat_profile.qubit_doubling_years)
@@ -119,12 +126,11 @@ def estimate(
         design=design,
     )
     if isinstance(view, str):
-        if output:
-            from pqtriage.cli.output import write_atomic
+        emit(view if view.endswith("\n") else view + "\n", output, inputs)
+    elif output and output != "-":
+        from pqtriage.cli.common import plain_text
 
-            write_atomic(output, view)
-        else:
-            typer.echo(view, nl=not view.endswith("\n"))
+        emit(plain_text(view), output, inputs)
     else:
         console().print(view)
     raise typer.Exit(code)

@@ -18,7 +18,7 @@ class TemplateFormat(str, Enum):
 
 
 def init_command(
-    output: str = typer.Argument("inventory.yaml", help="File to create."),
+    output: str = typer.Argument("inventory.yaml", help="File to create ('-' prints the template). A symbolic link is written through to its target; devices, pipes and folders are refused."),
     force: bool = typer.Option(False, "--force", help="Overwrite an existing file."),
     template_format: TemplateFormat = typer.Option(TemplateFormat.yaml, "--format", "-f",
                                                    help="yaml (commented) or xlsx (the same template as a workbook: one row per use)."),
@@ -26,12 +26,16 @@ def init_command(
     """Write a commented inventory template to start from (YAML, or a workbook)."""
     from importlib import resources
 
-    from pqtriage.cli.output import write_atomic
+    from pqtriage.cli.output import write_atomic, write_stdout
     from pqtriage.errors import UsageError
+    from pqtriage.formats.text import visible
 
-    if os.path.exists(output) and not force:
-        raise UsageError(f"{output} exists", hint="choose another name or pass --force")
     template = (resources.files("pqtriage") / "data" / "inventory-template.yaml").read_text("utf-8")
+    if output == "-" and template_format is not TemplateFormat.xlsx:
+        write_stdout(template)
+        return
+    if os.path.lexists(output) and not force:
+        raise UsageError(f"{output} exists", hint="choose another name or pass --force")
     if template_format is TemplateFormat.xlsx:
         from dataclasses import replace
 
@@ -42,4 +46,5 @@ def init_command(
         write_atomic(output, inventory_workbook(replace(inventory, warnings=())))
     else:
         write_atomic(output, template)
-    console(stderr=True).print(f"wrote {output}: edit it, then run 'pqtriage check {output}'", markup=False)
+    console(stderr=True).print(f"wrote {visible(output)}: edit it, then run 'pqtriage check {visible(output)}'",
+                               markup=False)

@@ -15,11 +15,17 @@ from pqtriage.cli.common import (
     CAPACITY_HELP,
     COLUMNS_HELP,
     HARDWARE_HELP,
+    OUTPUT_HELP,
     POLICY_HELP,
     PlanFormat,
     PlanPeriod,
     chart_path_for,
+    check_outputs,
     console,
+    emit,
+    plain_text,
+    profile_input,
+    to_file,
 )
 from pqtriage.errors import UsageError
 
@@ -101,7 +107,7 @@ def plan(
     capacity: Optional[str] = typer.Option(None, "--capacity", help=CAPACITY_HELP),
     output_format: PlanFormat = typer.Option(PlanFormat.table, "--format", "-f", help="Output format."),
     period: PlanPeriod = typer.Option(PlanPeriod.year, "--period", help="Group the terminal view by year or quarter."),
-    output: Optional[str] = typer.Option(None, "--output", "-o", help="Write to this file (Markdown also writes NAME-timeline.svg beside it)."),
+    output: Optional[str] = typer.Option(None, "--output", "-o", help="Write to this file (Markdown also writes NAME-timeline.svg beside it). " + OUTPUT_HELP),
     profile: Optional[str] = typer.Option(None, "--profile", help="Threat profile (shipped name or YAML file)."),
     as_of: Optional[str] = typer.Option(None, "--as-of", help="Date treated as today (YYYY-MM-DD)."),
     sensitivity: bool = typer.Option(False, "--sensitivity", help="Also show which systems change verdict if the CRQC moves -5..+5 years."),
@@ -115,20 +121,29 @@ def plan(
     from pqtriage.cli.output import write_atomic
     from pqtriage.pipeline import parse_as_of, prepare
 
+    inputs = [inventory, profile_input(profile), cbom_defaults, hardware, columns]
+    chart = chart_path_for(output) if output_format == PlanFormat.markdown and to_file(output) and output else None
+    check_outputs(output, inputs, chart)
     run = prepare(inventory, profile, parse_as_of(as_of), cbom_defaults, hardware, columns)
     the_plan = run.plan(tuple(policy or ()), capacity)
     if output_format == PlanFormat.table:
+        from rich.console import Group
+
         from pqtriage.formats.table.plan import plan_view
 
-        out = console()
-        out.print(plan_view(the_plan, period.value))
+        view = plan_view(the_plan, period.value)
         if sensitivity:
             from pqtriage.formats.table.sensitivity import band_table, sensitivity_table
 
             moved = run.sensitivity()
-            out.print(sensitivity_table(moved))
+            parts = [view, sensitivity_table(moved)]
             if moved.band_checked:
-                out.print(band_table(moved))
+                parts.append(band_table(moved))
+            view = Group(*parts)
+        if to_file(output):
+            emit(plain_text(view), output, inputs)
+        else:
+            console().print(view)
         return
     if output_format == PlanFormat.json:
         from pqtriage.formats.json.plan import plan_json
@@ -138,11 +153,7 @@ def plan(
         from pqtriage.formats.markdown.plan import plan_section
         from pqtriage.formats.svg.plan import plan_svg
 
-        chart = chart_path_for(output) if output else None
         text = plan_section(the_plan, Path(chart).name if chart else None)
         if chart:
-            write_atomic(chart, plan_svg(the_plan))
-    if output and output != "-":
-        write_atomic(output, text)
-    else:
-        typer.echo(text, nl=False)
+            write_atomic(chart, plan_svg(the_plan), inputs)
+    emit(text, output, inputs)

@@ -6,7 +6,13 @@ from typing import Any, List, Optional
 
 import typer
 
-from pqtriage.cli.common import DiscoveryFormat, finish_discovery, write_discovery
+from pqtriage.cli.common import (
+    OUTPUT_HELP,
+    DiscoveryFormat,
+    check_outputs,
+    finish_discovery,
+    write_discovery,
+)
 
 
 def probe_command(targets: list[str], output: str | None = None, **options: Any) -> Any:
@@ -22,7 +28,9 @@ def probe_command(targets: list[str], output: str | None = None, **options: Any)
     """
     from pqtriage.sources.probe.run import probe_inventory
 
-    return write_discovery(probe_inventory(targets, **options), output)
+    inputs = [options.get("targets_file")]  # the --merge inventory may be the output
+    check_outputs(output, inputs)
+    return write_discovery(probe_inventory(targets, **options), output, inputs)
 
 
 def probe(
@@ -30,7 +38,7 @@ def probe(
     targets_file: Optional[str] = typer.Option(None, "--targets", help="File with one target per line."),
     timeout: float = typer.Option(5.0, "--timeout", help="Seconds per target."),
     concurrency: int = typer.Option(8, "--concurrency", help="Targets probed at once."),
-    output: Optional[str] = typer.Option(None, "--output", "-o", help="Write the inventory here (stdout if absent)."),
+    output: Optional[str] = typer.Option(None, "--output", "-o", help="Write the inventory here (stdout if absent). The --merge inventory may be named to update it in place. " + OUTPUT_HELP),
     output_format: DiscoveryFormat = typer.Option(DiscoveryFormat.yaml, "--format", "-f", help="yaml or json."),
     merge: Optional[str] = typer.Option(None, "--merge", help="Fold the results into this existing inventory."),
     organization: str = typer.Option("Probed endpoints", "--organization", help="Organisation name of a new inventory."),

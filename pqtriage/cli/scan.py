@@ -9,8 +9,14 @@ from typing import Any, List, Optional
 
 import typer
 
-from pqtriage.cli.common import DiscoveryFormat, GroupByChoice, finish_discovery, write_discovery
-from pqtriage.errors import UsageError
+from pqtriage.cli.common import (
+    OUTPUT_HELP,
+    DiscoveryFormat,
+    GroupByChoice,
+    check_outputs,
+    finish_discovery,
+    write_discovery,
+)
 
 
 @contextmanager
@@ -64,24 +70,24 @@ def scan_command(
     """
     from pqtriage.sources.scan.run import scan_inventory
 
+    # The --merge inventory may be the output (updated in place: it is read whole first);
+    # the password file and every scanned file may not.
+    inputs = [options.get("password_file"), options.get("keystore_password_file")]
+    check_outputs(output, inputs, summary_json)
     result = scan_inventory(paths, progress=lambda total: _progress(total, progress), **options)
     if summary_json is not None:
         import json
 
         from pqtriage.cli.output import write_atomic
 
-        try:
-            write_atomic(summary_json, json.dumps(result.scan_summary, indent=2) + "\n")
-        except OSError as error:
-            raise UsageError(
-                f"cannot write {summary_json} ({error.strerror})", hint="check the folder exists"
-            ) from error
-    return write_discovery(result, output)
+        write_atomic(summary_json, json.dumps(result.scan_summary, indent=2) + "\n",
+                     [*inputs, *getattr(result, "read", ())])
+    return write_discovery(result, output, inputs)
 
 
 def scan(
     paths: List[str] = typer.Argument(..., help="Files and folders to scan (keys, certificates, keystores, configurations, archives, source code, captures)."),
-    output: Optional[str] = typer.Option(None, "--output", "-o", help="Write the inventory here (stdout if absent)."),
+    output: Optional[str] = typer.Option(None, "--output", "-o", help="Write the inventory here (stdout if absent). The --merge inventory may be named to update it in place. " + OUTPUT_HELP),
     output_format: DiscoveryFormat = typer.Option(DiscoveryFormat.yaml, "--format", "-f", help="yaml (an inventory) or json (same content)."),
     group_by: GroupByChoice = typer.Option(GroupByChoice.folder, "--group-by", help="How findings become systems."),
     merge: Optional[str] = typer.Option(None, "--merge", help="Fold the scan into this existing inventory (hand-written fields kept)."),

@@ -4,11 +4,11 @@ from __future__ import annotations
 
 import typer
 
-from pqtriage.cli.common import echo
+from pqtriage.cli.common import OUTPUT_HELP, echo
 
 
 def schema(
-    output: str | None = typer.Option(None, "--output", "-o", help="Write to this file instead of stdout."),
+    output: str | None = typer.Option(None, "--output", "-o", help=OUTPUT_HELP),
 ) -> None:
     """Print the JSON Schema of the inventory format (for editors and CI validation)."""
     import json

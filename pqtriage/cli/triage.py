@@ -12,16 +12,19 @@ from pqtriage.cli.common import (
     COLUMNS_HELP,
     GROUP_BY_HELP,
     HARDWARE_HELP,
+    OUTPUT_HELP,
     PROFILE_HELP,
     TOP_HELP,
     WHERE_HELP,
     ResultFormatChoice,
     VerdictChoice,
+    check_outputs,
     console,
     emit,
     emit_bytes,
     fail_code,
     plain_text,
+    profile_input,
     result_formats,
     to_file,
     view_of,
@@ -31,7 +34,7 @@ from pqtriage.cli.common import (
 def triage_command(
     inventory: str = typer.Argument(..., help="Inventory file (pqtriage YAML or CycloneDX JSON)."),
     output_format: ResultFormatChoice = typer.Option(ResultFormatChoice.table, "--format", "-f", help="Output format."),
-    output: Optional[str] = typer.Option(None, "--output", "-o", help="Write to this file instead of stdout."),
+    output: Optional[str] = typer.Option(None, "--output", "-o", help=OUTPUT_HELP),
     profile: Optional[str] = typer.Option(None, "--profile", help=PROFILE_HELP),
     as_of: Optional[str] = typer.Option(None, "--as-of", help=AS_OF_HELP),
     top: Optional[int] = typer.Option(None, "--top", min=1, help=TOP_HELP),
@@ -45,6 +48,8 @@ def triage_command(
     """Rank the inventory's systems by post-quantum exposure."""
     from pqtriage.pipeline import parse_as_of, run_triage
 
+    inputs = [inventory, profile_input(profile), cbom_defaults, hardware, columns]
+    check_outputs(output, inputs)
     full = run_triage(inventory, profile, parse_as_of(as_of), cbom_defaults, hardware, columns)
     result = view_of(full, where, top, group_by, output_format.value)
     formatter = result_formats()[output_format.value]
@@ -53,17 +58,17 @@ def triage_command(
 
         view = terminal_view(result)
         if to_file(output):
-            emit(plain_text(view), output)
+            emit(plain_text(view), output, inputs)
         else:
             console().print(view)
     elif getattr(formatter, "binary", False):
-        emit_bytes(formatter.render_bytes(result), output, f"--format {output_format.value}")
+        emit_bytes(formatter.render_bytes(result), output, f"--format {output_format.value}", inputs)
         if to_file(output):
             from pqtriage.formats.table.summary import summary_block
 
             console(stderr=True).print(summary_block(result))
     else:
-        emit(formatter.render(result), output)
+        emit(formatter.render(result), output, inputs)
         if to_file(output):
             from pqtriage.formats.table.summary import summary_block
 

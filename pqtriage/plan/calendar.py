@@ -11,6 +11,9 @@ from __future__ import annotations
 import datetime
 import math
 
+LAST_QUARTER = 9999 * 4 + 3
+"""Absolute number of the last calendar quarter Python's dates reach (9999-Q4)."""
+
 
 def absolute_quarter(day: datetime.date) -> int:
     """Number of the calendar quarter containing ``day`` (year * 4 + quarter index)."""

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from pqtriage.errors import Place
 from pqtriage.model.verdict import TriageResult, Verdict
 from pqtriage.plan.inputs import PlanCandidate, PlanUse
 
@@ -42,5 +43,7 @@ def candidates_from_triage(result: TriageResult) -> tuple[PlanCandidate, ...]:
             verdict=item.verdict.value,
             uses=tuple(uses),
             criticality=system.criticality.value,
+            place=Place(system.source.file, system.source.line, system.source.column)
+            if system.source is not None else None,
         ))
     return tuple(candidates)

@@ -12,6 +12,8 @@ import datetime
 from dataclasses import dataclass
 from typing import Literal
 
+from pqtriage.errors import Place
+
 # Defined once with the inventory format; re-exported here for the planner.
 from pqtriage.sources.schema import POLICY_CATEGORIES as POLICY_CATEGORIES
 from pqtriage.sources.schema import VENDOR_READINESS as VENDOR_READINESS
@@ -73,6 +75,8 @@ class PlanCandidate:
     criticality: str | None = None
     """Business criticality (critical, high, medium, low); critical and high count as
     high-priority for policy milestones scoped to high-priority systems."""
+    place: Place | None = None
+    """Where the system is written in the inventory, for messages about it."""
 
     @property
     def high_priority(self) -> bool:

@@ -11,8 +11,14 @@ from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
 from types import MappingProxyType
 
-from pqtriage.errors import PlanError
-from pqtriage.plan.calendar import duration_quarters, plan_origin, quarter_end, quarter_start
+from pqtriage.errors import PlanError, chain_text, quoted
+from pqtriage.plan.calendar import (
+    LAST_QUARTER,
+    duration_quarters,
+    plan_origin,
+    quarter_end,
+    quarter_start,
+)
 from pqtriage.plan.critical_path import critical_path
 from pqtriage.plan.deadlines import (
     Deadline,
@@ -160,6 +166,24 @@ def _validate(candidates: Sequence[PlanCandidate]) -> None:
             raise PlanError(f"{where}: effort_person_weeks must not be negative")
 
 
+def _check_calendar(candidates: Sequence[PlanCandidate], slots: Mapping[str, Slot], origin: int,
+                    path: tuple[str, ...]) -> None:
+    """Refuse a schedule that ends after 9999-12-31 (dates, and every output, stop there)."""
+    if not slots:
+        return
+    last = max(slots.values(), key=lambda s: (s.finish, s.id))
+    if origin + last.finish <= LAST_QUARTER:
+        return
+    item = next(c for c in candidates if c.id == last.id)
+    year = (origin + last.finish) // 4
+    chain = f", at the end of a dependency chain of {chain_text(list(path))}" if len(path) > 1 else ""
+    raise PlanError(
+        f"the plan runs past the year 9999: system {quoted(item.id)} would finish in {year}{chain}",
+        place=item.place,
+        hint="check migration_years and depends_on along the chain, or give more capacity",
+    )
+
+
 def build_plan(
     candidates: Sequence[PlanCandidate],
     as_of: datetime.date,
@@ -196,6 +220,7 @@ def build_plan(
         )
     slots = schedule(tasks, capacity)
     path = critical_path(slots, {t.id: t.depends_on for t in tasks})
+    _check_calendar(candidates, slots, origin, path)
     systems = [
         _system_plan(item, slots, origin, policies, shaped[item.id], item.id in path)
         for item in candidates

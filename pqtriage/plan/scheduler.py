@@ -16,7 +16,7 @@ from collections import Counter, defaultdict
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
-from pqtriage.errors import PlanError, UsageError
+from pqtriage.errors import PlanError, UsageError, chain_text, quoted
 
 _TOLERANCE = 1e-9
 
@@ -133,6 +133,7 @@ class Slot:
 def find_cycle(depends_on: Mapping[str, Sequence[str]]) -> list[str] | None:
     """A dependency cycle as [a, b, ..., a], or None; deterministic (ids visited sorted)."""
     state: dict[str, int] = {}  # 1 = on the current path, 2 = done
+    children_of: dict[str, list[str]] = {}  # sorted once per node, not at every step
     for root in sorted(depends_on):
         if state.get(root):
             continue
@@ -143,7 +144,9 @@ def find_cycle(depends_on: Mapping[str, Sequence[str]]) -> list[str] | None:
             if index == 0:
                 state[node] = 1
                 path.append(node)
-            children = sorted(depends_on.get(node, ()))
+            children = children_of.get(node)
+            if children is None:
+                children = children_of[node] = sorted(depends_on.get(node, ()))
             if index < len(children):
                 stack.append((node, index + 1))
                 child = children[index]
@@ -157,6 +160,11 @@ def find_cycle(depends_on: Mapping[str, Sequence[str]]) -> list[str] | None:
     return None
 
 
+def _listed(ids: Sequence[str], shown: int = 5) -> str:
+    names = ", ".join(quoted(i, 60)[1:-1] for i in ids[:shown])
+    return names + (f" and {len(ids) - shown:,} more" if len(ids) > shown else "")
+
+
 def check_dependencies(tasks: Sequence[Task]) -> None:
     """Refuse duplicate ids, unknown dependency ids and cycles.
 
@@ -167,38 +175,38 @@ def check_dependencies(tasks: Sequence[Task]) -> None:
     counts = Counter(ids)
     duplicates = sorted(i for i, n in counts.items() if n > 1)
     if duplicates:
-        raise PlanError(f"system id(s) {', '.join(duplicates)} appear more than once")
+        raise PlanError(f"system id(s) {_listed(duplicates)} appear more than once")
     known = set(ids)
     for task in tasks:
         missing = [d for d in task.depends_on if d not in known]
         if missing:
             raise PlanError(
-                f"system '{task.id}' depends on unknown system(s) {', '.join(missing)}",
+                f"system {quoted(task.id)} depends on unknown system(s) {_listed(missing)}",
                 hint="add them to the inventory or remove them from depends_on",
             )
     cycle = find_cycle({t.id: t.depends_on for t in tasks})
     if cycle:
         raise PlanError(
-            f"dependency cycle: {' -> '.join(cycle)}",
+            f"dependency cycle: {chain_text(cycle[:-1], closed=True)}",
             hint="remove one depends_on link of the cycle",
         )
 
 
 def topological_order(tasks: Sequence[Task]) -> list[str]:
     """Ids with every dependency before its dependants; ties by id (input must be acyclic)."""
-    remaining = {t.id: set(t.depends_on) for t in tasks}
+    remaining = {t.id: len(set(t.depends_on)) for t in tasks}
     dependants: dict[str, list[str]] = defaultdict(list)
     for task in tasks:
-        for dep in task.depends_on:
+        for dep in set(task.depends_on):
             dependants[dep].append(task.id)
-    ready = [i for i, deps in remaining.items() if not deps]
+    ready = [i for i, count in remaining.items() if not count]
     heapq.heapify(ready)  # smallest id first, as a sorted list would give, in O(n log n)
     order: list[str] = []
     while ready:
         current = heapq.heappop(ready)
         order.append(current)
         for child in dependants[current]:
-            remaining[child].discard(current)
+            remaining[child] -= 1
             if not remaining[child]:
                 heapq.heappush(ready, child)
     return order
@@ -224,8 +232,50 @@ def _shape(task: Task, capacity: Capacity) -> tuple[int, float, bool]:
     return duration, task.effort_person_weeks / duration, False
 
 
+class _LoadIndex:
+    """Tasks waiting for capacity, by priority position: the first one whose load fits.
+
+    A segment tree of the smallest load below each node (math.inf where no task waits), so
+    finding the most urgent waiting task with load <= room, adding and removing one are
+    O(log n) each.
+    """
+
+    def __init__(self, size: int):
+        self.leaves = 1
+        while self.leaves < max(1, size):
+            self.leaves *= 2
+        self.tree = [math.inf] * (2 * self.leaves)
+        self.count = 0
+
+    def set(self, position: int, load: float) -> None:
+        node = position + self.leaves
+        self.count += (load != math.inf) - (self.tree[node] != math.inf)
+        self.tree[node] = load
+        node //= 2
+        while node:
+            self.tree[node] = min(self.tree[2 * node], self.tree[2 * node + 1])
+            node //= 2
+
+    def first_fitting(self, room: float) -> int | None:
+        """Lowest position whose load is at most ``room``, or None."""
+        tree = self.tree
+        if tree[1] > room:
+            return None
+        node = 1
+        while node < self.leaves:
+            node = 2 * node if tree[2 * node] <= room else 2 * node + 1
+        return node - self.leaves
+
+
 def schedule(tasks: Sequence[Task], capacity: Capacity) -> dict[str, Slot]:
     """Place every task exactly once, respecting dependencies, releases and capacity.
+
+    Greedy list scheduling, quarter by quarter (this module's docstring), computed by events:
+    only quarters where a task becomes ready (its dependencies finished, its vendor delay
+    passed) or a running task has finished can start anything, because every running task
+    started at or before the current quarter, so the load of the quarters ahead never grows
+    and a task fits its whole window exactly when it fits its first quarter. Time and memory
+    are O((systems + dependencies) log systems), whatever the durations.
 
     Raises:
         PlanError: on duplicate ids, unknown dependencies or a dependency cycle.
@@ -233,45 +283,79 @@ def schedule(tasks: Sequence[Task], capacity: Capacity) -> dict[str, Slot]:
     check_dependencies(tasks)
     ranks = effective_ranks(tasks)
     order = sorted(tasks, key=lambda t: (ranks[t.id], t.priority_rank, t.id))
-    shapes = {t.id: _shape(t, capacity) for t in tasks}
-    running: dict[int, int] = defaultdict(int)
-    weeks: dict[int, float] = defaultdict(float)
+    position = {t.id: index for index, t in enumerate(order)}
+    shapes = [_shape(t, capacity) for t in order]
+    waiting_deps = [len(set(t.depends_on)) for t in order]
+    dependants: list[list[int]] = [[] for _ in order]
+    for index, task in enumerate(order):
+        for dep in set(task.depends_on):
+            dependants[position[dep]].append(index)
+    dependency_ready = [0] * len(order)
+    # (quarter it may start, position): tasks whose dependencies are all placed.
+    upcoming = [(max(t.release, 0), i) for i, t in enumerate(order) if not waiting_deps[i]]
+    heapq.heapify(upcoming)
+    limit = capacity.person_weeks_per_quarter
+    unlimited = capacity.concurrent is None and limit is None
+    by_load = _LoadIndex(len(order)) if limit is not None else None
+    by_rank: list[int] = []  # waiting tasks by position, when only the count is limited
+    running: list[tuple[int, float]] = []  # (finish, load) of started tasks
+    running_count = 0
+    running_weeks = 0.0
     slots: dict[str, Slot] = {}
-    pending = list(order)
-    quarter = 0
-    while pending:
-        waiting: list[Task] = []
-        for task in pending:
-            deps_done = all(d in slots and slots[d].finish < quarter for d in task.depends_on)
-            duration, load, stretched = shapes[task.id]
-            window = range(quarter, quarter + duration)
-            fits = all(
-                (capacity.concurrent is None or running[q] + 1 <= capacity.concurrent)
-                and (
-                    capacity.person_weeks_per_quarter is None
-                    or weeks[q] + load <= capacity.person_weeks_per_quarter + _TOLERANCE
-                )
-                for q in window
-            )
-            if not (deps_done and task.release <= quarter and fits):
-                waiting.append(task)
-                continue
-            for q in window:
-                running[q] += 1
-                weeks[q] += load
-            dependency_ready = max((slots[d].finish + 1 for d in task.depends_on), default=0)
-            slots[task.id] = Slot(
-                id=task.id,
-                start=quarter,
-                finish=quarter + duration - 1,
-                load=load,
-                stretched=stretched,
-                dependency_ready=dependency_ready,
-                release=task.release,
-                gate=_gate(quarter, dependency_ready, task.release),
-            )
-        pending = waiting
-        quarter += 1
+
+    def start(index: int, quarter: int) -> None:
+        nonlocal running_count, running_weeks
+        task = order[index]
+        duration, load, stretched = shapes[index]
+        finish = quarter + duration - 1
+        ready = dependency_ready[index]
+        slots[task.id] = Slot(
+            id=task.id, start=quarter, finish=finish, load=load, stretched=stretched,
+            dependency_ready=ready, release=task.release, gate=_gate(quarter, ready, task.release),
+        )
+        if not unlimited:
+            heapq.heappush(running, (finish, load))
+            running_count += 1
+            running_weeks += load
+        for child in dependants[index]:
+            dependency_ready[child] = max(dependency_ready[child], finish + 1)
+            waiting_deps[child] -= 1
+            if not waiting_deps[child]:
+                heapq.heappush(upcoming, (max(order[child].release, dependency_ready[child], 0), child))
+
+    while upcoming or (by_load.count if by_load else by_rank):
+        waiting = by_load.count if by_load is not None else len(by_rank)
+        quarter = upcoming[0][0] if upcoming else math.inf
+        if waiting and running:
+            quarter = min(quarter, running[0][0] + 1)  # capacity frees up after a finish
+        assert quarter != math.inf, "waiting tasks with nothing running cannot happen"
+        quarter = int(quarter)
+        while running and running[0][0] < quarter:
+            _, load = heapq.heappop(running)
+            running_count -= 1
+            running_weeks = running_weeks - load if running_count else 0.0
+        while upcoming and upcoming[0][0] <= quarter:
+            _, index = heapq.heappop(upcoming)
+            if unlimited:
+                start(index, quarter)
+            elif by_load is not None:
+                by_load.set(index, shapes[index][1])
+            else:
+                heapq.heappush(by_rank, index)
+        if unlimited:
+            continue
+        while capacity.concurrent is None or running_count < capacity.concurrent:
+            if by_load is not None:
+                assert limit is not None
+                index_found = by_load.first_fitting(limit + _TOLERANCE - running_weeks)
+                if index_found is None:
+                    break
+                by_load.set(index_found, math.inf)
+            elif by_rank:
+                index_found = heapq.heappop(by_rank)
+            else:
+                break
+            start(index_found, quarter)
     return slots
 
 

@@ -21,13 +21,14 @@ Grouping rule (docs/interop.md, "CBOM import"):
 
 from __future__ import annotations
 
-import json
+import math
 import re
 from collections import deque
 from dataclasses import replace
 from typing import Any
 
-from pqtriage.errors import InventoryError, Place
+from pqtriage import jsonio
+from pqtriage.errors import InventoryError, Place, quoted
 from pqtriage.model.inventory import Criticality, CryptoUse, Exposure, Inventory, SourceRef, System
 from pqtriage.sources.cbom_assets import (
     Positions,
@@ -44,6 +45,7 @@ from pqtriage.sources.cbom_side import (
     CbomSideFile,
 )
 from pqtriage.sources.interface import InventorySource
+from pqtriage.sources.schema import FieldSpec
 from pqtriage.sources.yaml_inventory import find_cycle
 
 SUPPORTED_VERSIONS = ("1.6", "1.7")
@@ -55,40 +57,10 @@ _REF_FIELDS = (("certificateProperties", ("signatureAlgorithmRef", "subjectPubli
                ("relatedCryptoMaterialProperties", ("algorithmRef",)))
 
 
-class _DuplicateKey(ValueError):
-    pass
-
-
-def _pairs(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
-    out = dict(pairs)  # built in C; only a duplicate key makes it shorter than the pairs
-    if len(out) != len(pairs):
-        seen: set[str] = set()
-        for key, _ in pairs:
-            if key in seen:
-                raise _DuplicateKey(key)
-            seen.add(key)
-    return out
-
-
-def _constant(name: str) -> None:
-    raise ValueError(f"{name} is not a JSON number")
-
-
 def load_json(text: str, path: str) -> Any:
-    """Parse JSON strictly; errors name file:line:column (duplicate keys and NaN refused)."""
-    try:
-        return json.loads(text, object_pairs_hook=_pairs, parse_constant=_constant)
-    except json.JSONDecodeError as exc:
-        raise InventoryError(f"invalid JSON: {exc.msg}", place=Place(path, exc.lineno, exc.colno),
-                             hint="check commas, quotes and brackets") from exc
-    except RecursionError as exc:
-        raise InventoryError("JSON nested too deeply", place=Place(path),
-                             hint="flatten the document") from exc
-    except _DuplicateKey as exc:
-        raise InventoryError(f"duplicate key '{str(exc)[:80]}' in a JSON object", place=Place(path),
-                             hint="keep one of them") from exc
-    except ValueError as exc:
-        raise InventoryError(f"cannot read a JSON value: {str(exc)[:120]}", place=Place(path)) from exc
+    """Parse JSON strictly; errors name file:line:column (duplicate keys and NaN refused, depth
+    bounded): :func:`pqtriage.jsonio.load_json` with inventory errors."""
+    return jsonio.load_json(text, path, InventoryError)
 
 
 def asset_parts(component: dict[str, Any]) -> list[str]:
@@ -132,14 +104,20 @@ class _BomReader:
         self.provides: dict[str, list[str]] = {}
         self.subject: str | None = None
         self.positions = Positions("")
+        self.located = jsonio.JsonPositions("")
         self._parts: dict[str, list[str]] = {}
 
-    def fail(self, where: str, message: str, ref: str | None = None, hint: str | None = None) -> InventoryError:
-        line, column = self.positions.of(ref)
+    def fail(self, where: str, message: str, ref: str | None = None, hint: str | None = None,
+             at: str | None = None) -> InventoryError:
+        # The value the JSON path names (or ``at``), found in the text; else the nearest bom-ref.
+        line, column = self.located.at(at or where)
+        if line is None:
+            line, column = self.positions.of(ref)
         return InventoryError(f"{where}: {message}", place=Place(self.path, line, column), hint=hint)
 
     def inventory(self, text: str, sha256: str | None) -> Inventory:
         self.positions = Positions(text)
+        self.located = jsonio.JsonPositions(text)
         doc = load_json(text, self.path)
         if not isinstance(doc, dict) or doc.get("bomFormat") != "CycloneDX":
             raise InventoryError("not a CycloneDX BOM: the top level has no \"bomFormat\": \"CycloneDX\"",
@@ -191,7 +169,9 @@ class _BomReader:
             raise self.fail(label(), "bom-ref must be non-empty text", parent)
         ref = ref or label()
         if ref in self.nodes or ref in self.crypto:
-            raise self.fail(label(), f"duplicate bom-ref '{ref[:80]}'", ref, "bom-refs must be unique in a BOM")
+            first, _ = self.positions.of(ref)
+            raise self.fail(label(), f"duplicate bom-ref {quoted(ref, 80)} (first at line {first})", ref,
+                            "bom-refs must be unique in a BOM", at=f"{label()}.bom-ref")
         is_crypto = component.get("type") == "cryptographic-asset" or "cryptoProperties" in component
         (self.crypto if is_crypto else self.nodes)[ref] = component
         if is_crypto and not isinstance(component.get("cryptoProperties"), dict):
@@ -348,8 +328,7 @@ class _BomReader:
             key = spec.name
             if key in side:
                 values[key] = side[key]
-            elif key in own and (value := self._property(spec.kind, spec.choices, own[key], spec.minimum,
-                                                          spec.maximum)) is not None:
+            elif key in own and (value := self._property(spec, own[key])) is not None:
                 values[key] = value
                 if key in flagged:
                     assumed.append(key)
@@ -363,17 +342,17 @@ class _BomReader:
         return values, assumed
 
     @staticmethod
-    def _property(kind: str, choices: tuple[str, ...], text: str, low: float | None,
-                  high: float | None) -> Any:
-        if kind == "number":
+    def _property(spec: FieldSpec, text: str) -> Any:
+        if spec.kind == "number":
             try:
                 number = float(text)
             except ValueError:
                 return None
-            ok = (low is None or number >= low) and (high is None or number <= high)
+            ok = math.isfinite(number) and not spec.below_minimum(number) and (
+                spec.maximum is None or number <= spec.maximum)
             return number if ok else None
-        if kind == "enum":
-            return text if text in choices else None
+        if spec.kind == "enum":
+            return text if text in spec.choices else None
         return text if text.strip() else None
 
     def _organization(self, metadata: dict[str, Any]) -> str:

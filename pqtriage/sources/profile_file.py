@@ -15,6 +15,9 @@ from pqtriage.yamlio import Node, decode_text, load_yaml
 DEFAULT_PROFILE = "survey-2025-upper"
 """The cautious end of the 2025 expert survey: the defender's choice."""
 DEFAULT_RISK_TOLERANCE = 0.10
+REFERENCE_DATE_RANGE = (dt.date(1970, 1, 1), dt.date(2199, 12, 31))
+"""Dates a profile's reference_date may have: the range --as-of accepts, so that the
+reference date plus an arrival horizon (at most 200 years) stays within the calendar."""
 """Used when a profile does not set risk_tolerance."""
 
 _FIELDS = {
@@ -129,6 +132,11 @@ def parse_profile(data: bytes, path: str) -> ThreatProfile:
         reference = dt.date.fromisoformat(str(date_node.value))
     except ValueError as exc:
         raise _fail(path, date_node, "'reference_date' must be a date YYYY-MM-DD") from exc
+    if not REFERENCE_DATE_RANGE[0] <= reference <= REFERENCE_DATE_RANGE[1]:
+        earliest, latest = REFERENCE_DATE_RANGE
+        raise _fail(path, date_node, f"'reference_date' {reference} is outside {earliest} to {latest}",
+                    "give the date the survey or estimate was published; later dates leave the "
+                    "calendar once arrival horizons (up to 200 years) are added")
     arrival = raw["arrival"]
     if not isinstance(arrival.value, list) or not arrival.value:
         raise _fail(path, arrival, "'arrival' must be a non-empty list of {within_years, probability}",

@@ -24,7 +24,7 @@ MAX_SHELF_LIFE_YEARS = 100.0
 MAX_MIGRATION_YEARS = 50.0
 """Longest migration time accepted."""
 MAX_KEY_SIZE = 65536
-"""Largest key size accepted in bits."""
+"""Largest key size assessed, in bits (the catalog's limit): larger sizes make the use unassessed."""
 
 POLICY_CATEGORIES = (
     "software-firmware-signing",
@@ -68,7 +68,9 @@ class FieldSpec:
     required: bool = False
     """Whether the field must be present (after file defaults are applied)."""
     minimum: float | None = None
-    """Smallest accepted number."""
+    """Smallest accepted number (itself excluded when ``exclusive_minimum``)."""
+    exclusive_minimum: bool = False
+    """Whether the number must be strictly greater than ``minimum``."""
     maximum: float | None = None
     """Largest accepted number."""
     choices: tuple[str, ...] = ()
@@ -84,14 +86,27 @@ class FieldSpec:
     ordered: bool = False
     """Whether an enum's choices run from least to most (filters may compare them)."""
 
+    def below_minimum(self, value: float) -> bool:
+        """Whether a number is under the field's lower bound."""
+        if self.minimum is None:
+            return False
+        return value <= self.minimum if self.exclusive_minimum else value < self.minimum
+
+    def lower_bound_text(self) -> str:
+        """The lower bound for messages: 'the minimum 0' or 'more than 0'."""
+        assert self.minimum is not None
+        return f"more than {self.minimum:g}" if self.exclusive_minimum else f"the minimum {self.minimum:g}"
+
 
 USE_FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("purpose", "enum", "What the algorithm protects here.", required=True,
               choices=tuple(p.value for p in Purpose)),
     FieldSpec("algorithm", "str", "Algorithm name in any common spelling (RSA, P-256, AES-128-GCM, "
               "ML-KEM-768, TLS_ECDHE_RSA_WITH_AES_128_GCM_SHA256 ...).", required=True),
-    FieldSpec("key_size", "integer", "Key or modulus size in bits, when the name does not fix it.",
-              minimum=1, maximum=MAX_KEY_SIZE),
+    # No range here: a scan can meet any size (a 100,000-bit RSA key), and nothing may make the
+    # whole file unreadable; a size outside 1..MAX_KEY_SIZE makes that one use unassessed.
+    FieldSpec("key_size", "integer", "Key or modulus size in bits, when the name does not fix it "
+              f"(a size outside 1..{MAX_KEY_SIZE} bits makes the use unassessed, with the reason)."),
     FieldSpec("curve", "str", "Elliptic curve, when the name does not fix it (P-256, secp384r1 ...)."),
     FieldSpec("parameter_set", "str", "Parameter set, when the name does not fix it (768, 65 ...)."),
     FieldSpec("trust_years", "number", "How long signatures or integrity tags made here must stay "
@@ -136,8 +151,10 @@ SYSTEM_FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("name", "str", "Human-readable name (defaults to the id)."),
     FieldSpec("shelf_life_years", "number", "Mosca's x: how long the data must stay confidential.",
               required=True, minimum=0, maximum=MAX_SHELF_LIFE_YEARS, defaultable=True),
-    FieldSpec("migration_years", "number", "Mosca's y: how long migrating the system takes.",
-              required=True, minimum=0, maximum=MAX_MIGRATION_YEARS, defaultable=True),
+    FieldSpec("migration_years", "number", "Mosca's y: how long migrating the system takes "
+              "(more than 0: a migration takes time, and the plan needs a duration).",
+              required=True, minimum=0, exclusive_minimum=True, maximum=MAX_MIGRATION_YEARS,
+              defaultable=True),
     FieldSpec("depends_on", "string-list", "Ids of systems that must migrate first."),
     FieldSpec("owner", "str", "Accountable person or team.", defaultable=True),
     FieldSpec("description", "str", "Free text."),
@@ -216,7 +233,7 @@ def _field_schema(spec: FieldSpec) -> dict[str, Any]:
     elif spec.kind in ("number", "integer"):
         schema = {"type": spec.kind}
         if spec.minimum is not None:
-            schema["minimum"] = spec.minimum
+            schema["exclusiveMinimum" if spec.exclusive_minimum else "minimum"] = spec.minimum
         if spec.maximum is not None:
             schema["maximum"] = spec.maximum
     elif spec.kind == "enum":

@@ -18,7 +18,7 @@ import re
 from collections.abc import Callable
 from typing import Any
 
-from pqtriage.errors import InventoryError, InventoryProblems, Place, Problem
+from pqtriage.errors import InventoryError, InventoryProblems, Place, Problem, chain_text, quoted
 from pqtriage.model.inventory import (
     IN_USE,
     Criticality,
@@ -35,6 +35,7 @@ from pqtriage.model.inventory import (
     System,
 )
 from pqtriage.sources.interface import InventorySource, UseCheck
+from pqtriage.sources.lookalike import lookalike_key, lookalike_pairs, looks_alike, spelled_out
 from pqtriage.sources.schema import (
     DEFAULTABLE,
     FORMAT_VERSIONS,
@@ -143,8 +144,11 @@ class _Reader:
                 raise _Bad(node, f"{label} must be a whole number, got {value}")
             if isinstance(value, float) and not math.isfinite(value):
                 raise _Bad(node, f"{label} must be a finite number, got {value}")
-            if spec.minimum is not None and value < spec.minimum:
-                raise _Bad(node, f"{label} is {value}, below the minimum {spec.minimum:g}",
+            if spec.below_minimum(value):
+                if spec.exclusive_minimum:
+                    raise _Bad(node, f"{label} is {value}, it must be {spec.lower_bound_text()}",
+                               "give the real duration, for example 0.5 for six months")
+                raise _Bad(node, f"{label} is {value}, below {spec.lower_bound_text()}",
                            "years and sizes cannot be negative")
             if spec.maximum is not None and value > spec.maximum:
                 if spec.name == "version" and what == "the inventory":
@@ -389,36 +393,57 @@ class _Reader:
         )
 
     def check_ids(self, nodes: list[Node], systems: list[System], complete: bool = True) -> None:
-        """Duplicate ids, dependencies on unknown or own ids, cycles (recorded)."""
-        seen: dict[str, int] = {}
+        """Duplicate ids, look-alike ids (Unicode normalisation, invisible and confusable
+        characters), dependencies on unknown or own ids, cycles (recorded)."""
+        seen: dict[str, Node] = {}
         for node, system in zip(nodes, systems, strict=True):
             if system.id in seen:
-                self.report(node, f"duplicate system id '{system.id}' (first at line {seen[system.id]})",
-                            "give each system its own id")
+                alias = (f"; this entry is an alias of the system at line {node.alias_of}"
+                         if node.alias_of is not None else "")
+                self.report(node, f"duplicate system id {quoted(system.id)} (first at line {seen[system.id].line}){alias}",
+                            "give each system its own id" + (" (write it out instead of the alias)" if alias else ""))
             else:
-                seen[system.id] = node.line
+                seen[system.id] = node
+        ids = list(seen)
+        for earlier, later in lookalike_pairs(ids):
+            self.report(
+                seen[ids[later]],
+                f"system id {quoted(spelled_out(ids[later]))} looks like {quoted(spelled_out(ids[earlier]))}"
+                f" (line {seen[ids[earlier]].line}): they differ only by Unicode normalisation, invisible"
+                " or look-alike characters, so every output would show them the same",
+                "rename one of them (plain ASCII ids are safest)",
+            )
+        keys: dict[str, str] | None = None
         for node, system in zip(nodes, systems, strict=True):
             for dep in system.depends_on:
                 where = _child(node, "depends_on")
                 if dep == system.id:
-                    self.report(where, f"system '{system.id}' depends on itself",
+                    self.report(where, f"system {quoted(system.id)} depends on itself",
                                 "remove it from its own depends_on")
                     continue
                 if dep in seen:
                     continue
-                close = difflib.get_close_matches(dep, list(seen), n=1, cutoff=0.75)
+                if keys is None:
+                    keys = {lookalike_key(i): i for i in reversed(ids)}
+                twin = keys.get(lookalike_key(dep))
+                if twin is not None and looks_alike(dep, twin):
+                    self.report(where, f"system {quoted(system.id)} depends on {quoted(spelled_out(dep))},"
+                                f" which looks like system {quoted(spelled_out(twin))} but is not the same text",
+                                "copy the id exactly")
+                    continue
+                # difflib over every id is quadratic in large inventories: only for small ones.
+                close = difflib.get_close_matches(dep, ids, n=1, cutoff=0.75) if len(ids) <= 5000 else []
                 if close:  # almost certainly a typo of a system in this file
-                    self.report(where, f"system '{system.id}' depends on unknown id '{dep}'",
-                                f"did you mean '{close[0]}'?")
+                    self.report(where, f"system {quoted(system.id)} depends on unknown id {quoted(dep)}",
+                                f"did you mean {quoted(close[0])}?")
                 elif complete:  # with systems left out by other problems, the warning may be wrong
                     # A dependency outside this file (another team's PKI) is legitimate: warn.
-                    self.warn(where, f"system '{system.id}' depends on '{dep}', which is not in this"
+                    self.warn(where, f"system {quoted(system.id)} depends on {quoted(dep)}, which is not in this"
                               " inventory; treated as an external dependency (add it to plan it too;"
                               " 'check --strict' makes this an error)")
         cycle = find_cycle({s.id: tuple(d for d in s.depends_on if d != s.id) for s in systems})
         if cycle:
-            first = next(n for n, s in zip(nodes, systems, strict=True) if s.id == cycle[0])
-            self.report(first, "dependency cycle: " + " -> ".join(cycle + [cycle[0]]),
+            self.report(seen[cycle[0]], "dependency cycle: " + chain_text(cycle, closed=True),
                         "break the cycle: one of them must migrate first")
 
 

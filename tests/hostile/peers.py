@@ -9,7 +9,10 @@ and stops by itself after ``lifetime`` seconds. Behaviours:
 - ``ssh-endless-banner``: sends banner-like lines forever (RFC 4253 section 4.2 allows
   lines before the version string, but not without end);
 - ``ssh-oversized-packet``: a valid version string, then a binary packet whose length
-  field announces 4 GiB (RFC 4253 section 6.1: implementations need handle only 35,000 bytes).
+  field announces 4 GiB (RFC 4253 section 6.1: implementations need handle only 35,000 bytes);
+- ``ssh-escape-banner``: an identification string carrying terminal control sequences
+  (ECMA-48 OSC 0 "set window title", OSC 52 "set clipboard", CSI 2J "erase display"), then a
+  well-formed KEXINIT (RFC 4253 section 7.1), so the probe succeeds and reports the banner.
 """
 
 from __future__ import annotations
@@ -22,7 +25,20 @@ import time
 from types import TracebackType
 from typing import Self
 
-BEHAVIOURS = ("garbage", "stall", "reset", "ssh-endless-banner", "ssh-oversized-packet")
+BEHAVIOURS = ("garbage", "stall", "reset", "ssh-endless-banner", "ssh-oversized-packet",
+              "ssh-escape-banner")
+ESCAPE_BANNER = b"SSH-2.0-Evil\x1b]0;owned\x07\x1b]52;c;cm0gLXJmIH4=\x07\x1b[2J_1.0\r\n"
+"""The identification line of ``ssh-escape-banner``."""
+
+
+def kexinit_packet() -> bytes:
+    """One SSH binary packet (RFC 4253 section 6) holding a KEXINIT (section 7.1)."""
+    lists = [b"curve25519-sha256", b"ssh-ed25519", b"aes128-ctr", b"aes128-ctr", b"hmac-sha2-256",
+             b"hmac-sha2-256", b"none", b"none", b"", b""]
+    payload = b"\x14" + bytes(16) + b"".join(struct.pack(">I", len(n)) + n for n in lists) + b"\x00" + bytes(4)
+    padding = 8 - (len(payload) + 5) % 8
+    padding += 8 if padding < 4 else 0
+    return struct.pack(">IB", len(payload) + padding + 1, padding) + payload + bytes(padding)
 
 
 class HostilePeer:
@@ -90,6 +106,11 @@ class HostilePeer:
                 line = b"Welcome " + b"x" * 200 + b"\r\n"
                 while self._alive():
                     conn.sendall(line)
+            elif self.behaviour == "ssh-escape-banner":
+                conn.sendall(ESCAPE_BANNER)
+                self._read_some(conn)
+                conn.sendall(kexinit_packet())
+                self._linger(conn)
             elif self.behaviour == "ssh-oversized-packet":
                 conn.sendall(b"SSH-2.0-HostilePeer_1.0\r\n")
                 self._read_some(conn)

@@ -57,3 +57,18 @@ def test_oversized_packet_announces_four_gibibytes() -> None:
         while len(header) < 4:
             header += sock.recv(4 - len(header))
         assert int.from_bytes(header, "big") > 35_000  # RFC 4253 section 6.1 minimum is 35,000
+
+
+def test_escape_banner_sends_control_sequences_then_a_kexinit() -> None:
+    with HostilePeer("ssh-escape-banner") as peer, socket.create_connection(peer.address, timeout=5) as sock:
+        banner = b""
+        while not banner.endswith(b"\r\n"):
+            banner += sock.recv(1)
+        assert banner.startswith(b"SSH-2.0-") and b"\x1b]52;" in banner and b"\x1b[2J" in banner
+        sock.sendall(b"SSH-2.0-TestClient\r\n")
+        packet = b""
+        while len(packet) < 6:
+            packet += sock.recv(6 - len(packet))
+        length = int.from_bytes(packet[:4], "big")
+        # RFC 4253 section 6: length + 4 is a multiple of 8; section 7.1: message 20 is KEXINIT.
+        assert (length + 4) % 8 == 0 and packet[5] == 20

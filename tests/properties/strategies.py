@@ -44,6 +44,8 @@ EXTRA_KEYS = st.from_regex(r"\A[A-Za-z][A-Za-z0-9_-]{0,12}\Z")
 EXTRA_VALUES = st.one_of(TEXT_OR_LOOKALIKE, st.integers(-10**6, 10**6), st.booleans(),
                          st.floats(-1e6, 1e6, allow_nan=False).map(lambda v: round(v, 3)))
 YEARS = st.one_of(st.integers(0, 50).map(float), st.floats(0, 50, allow_nan=False).map(lambda v: round(v, 3)))
+MIGRATION_YEARS = YEARS.filter(lambda y: y > 0)
+"""migration_years must be more than 0 (the inventory format; a plan needs a duration)."""
 
 
 def _lookalike(text: st.SearchStrategy[str]) -> st.SearchStrategy[str]:
@@ -102,7 +104,7 @@ def inventories(draw: st.DrawFn, max_systems: int = 6, text_ids: bool = True,
             id=ident,
             name=draw(st.just(ident) | TEXT),
             shelf_life_years=draw(YEARS),
-            migration_years=draw(YEARS),
+            migration_years=draw(MIGRATION_YEARS),
             uses=tuple(draw(st.lists(uses(text), max_size=3))),
             owner=draw(st.none() | TEXT),
             description=draw(st.none() | TEXT),

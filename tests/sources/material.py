@@ -276,3 +276,43 @@ def write(path: Path, data: bytes | str) -> Path:
     else:
         path.write_bytes(data)
     return path
+
+
+def certificate_with_serial(key: Any, common_name: str, serial_byte: int) -> bytes:
+    """PEM of a self-signed certificate whose serial number is one DER byte: 0x00 (zero) or
+    0x80..0xFF (negative). RFC 5280 section 4.1.2.2 requires a positive serial, so the
+    builder refuses these: the certificate is built with serial 1 and its DER INTEGER (ITU-T
+    X.690 section 8.3) is patched in place; the signature no longer verifies, which a scan
+    never checks."""
+    der = certificate(key, common_name).public_bytes(serialization.Encoding.DER)
+    marker = b"\xa0\x03\x02\x01\x02"  # [0] EXPLICIT version v3, right before the serial
+    at = der.index(marker) + len(marker)
+    # serial_number(1) is not used by certificate(); patch whatever serial it has instead.
+    assert der[at] == 0x02, "serial INTEGER follows the version"
+    length = der[at + 1]
+    patched = der[: at + 1] + b"\x01" + bytes([serial_byte]) + der[at + 2 + length:]
+    # Keep every enclosing DER length right: the tbsCertificate and the certificate shrink.
+    shrink = length - 1
+    return _pem(_shrink(patched, shrink))
+
+
+def _shrink(der: bytes, shrink: int) -> bytes:
+    """Reduce the two outer SEQUENCE lengths (certificate, tbsCertificate) by ``shrink``."""
+    def fix(data: bytes, offset: int) -> bytes:
+        assert data[offset] == 0x30
+        first = data[offset + 1]
+        if first < 0x80:
+            return data[: offset + 1] + bytes([first - shrink]) + data[offset + 2:]
+        count = first & 0x7F
+        value = int.from_bytes(data[offset + 2: offset + 2 + count], "big") - shrink
+        return data[: offset + 2] + value.to_bytes(count, "big") + data[offset + 2 + count:]
+
+    outer = fix(der, 0)
+    count = outer[1] & 0x7F if outer[1] >= 0x80 else 0
+    return fix(outer, 2 + count)
+
+
+def _pem(der: bytes) -> bytes:
+    body = base64.encodebytes(der).replace(b"\n", b"")
+    lines = [body[i: i + 64] for i in range(0, len(body), 64)]
+    return b"-----BEGIN CERTIFICATE-----\n" + b"\n".join(lines) + b"\n-----END CERTIFICATE-----\n"

@@ -266,9 +266,11 @@ def test_duplicate_bom_ref_is_refused_at_its_line(tmp_path: Path) -> None:
     text = cbom_text(bom)
     with pytest.raises(InventoryError) as caught:
         load_inventory(_write(tmp_path, text))
-    assert "duplicate bom-ref 'alg-rsa'" in caught.value.diagnostics()
-    assert f"scan.cdx.json:{line_of_bom_ref(text, 'alg-rsa')}:" in caught.value.diagnostics()
-
+    first = line_of_bom_ref(text, "alg-rsa")
+    assert f"duplicate bom-ref 'alg-rsa' (first at line {first})" in caught.value.diagnostics()
+    # Reported at the second one: the bom-ref of components[3]: the place of the error.
+    second = next(n for n, line in enumerate(text.splitlines(), 1) if n > first and '"bom-ref": "alg-rsa"' in line)
+    assert f"scan.cdx.json:{second}:" in caught.value.diagnostics()
 
 
 def test_non_ascii_digits_in_a_size_are_not_read_as_numbers() -> None:

@@ -125,9 +125,9 @@ def test_defaults_fill_missing_fields(tmp_path: Path) -> None:
          "inv.yaml:4:71: 'purpose' in use #1 of system 'a' is 'signing', not a known value; did you mean 'signature'?"),
         ("version: 1\norganization: O\nsystems:\n  - {id: a, migration_years: 1, uses: []}\n",
          "inv.yaml:4:5: system 'a' has no 'shelf_life_years'; add it here or in the file's defaults section"),
-        ("version: 1\norganization: O\nsystems:\n  - {id: a, shelf_life_years: 1, migration_years: 1,"
-         " uses: [{purpose: signature, algorithm: RSA, key_size: 99999999999999999999999}]}\n",
-         "inv.yaml:4:108: 'key_size' in use #1 of system 'a' is 99999999999999999999999, above the maximum 65536; check the unit (years, bits)"),
+        ("version: 1\norganization: O\nsystems:\n  - {id: a, shelf_life_years: 1, migration_years: 0,"
+         " uses: []}\n",
+         "inv.yaml:4:51: 'migration_years' in system 'a' is 0, it must be more than 0; give the real duration, for example 0.5 for six months"),
         ("version: 1\norganization: O\nsystems:\n  - {id: a, shelf_life_years: 1, migration_years: 1,"
          " uses: [{purpose: signature, algorithm: RSA, role: offerd}]}\n",
          "inv.yaml:4:104: 'role' in use #1 of system 'a' is 'offerd', not a known value; did you mean 'offered'?"),
@@ -184,3 +184,21 @@ def test_large_file_is_refused_before_parsing(tmp_path: Path) -> None:
     with pytest.raises(InventoryError) as caught:
         load_inventory(str(path))
     assert "larger than 16 MiB" in caught.value.diagnostics()
+
+
+@pytest.mark.parametrize("size", [0, 100_000, 99999999999999999999999])
+def test_a_key_size_outside_the_catalog_range_makes_only_that_use_unassessed(tmp_path: Path, size: int) -> None:
+    """Nothing dropped: a scan can meet a 100,000-bit RSA key; the file still reads
+    and the catalog says why that one use cannot be assessed."""
+    from pqtriage.catalog import load_catalog
+
+    text = ("version: 1\norganization: O\nsystems:\n  - {id: a, shelf_life_years: 1, migration_years: 1,"
+            f" uses: [{{purpose: signature, algorithm: RSA, key_size: {size}}},"
+            " {purpose: signature, algorithm: RSA, key_size: 3072}]}\n")
+    inventory = load_inventory(_write(tmp_path, text))
+    big, normal = inventory.systems[0].uses
+    catalog = load_catalog()
+    found = catalog.resolve(big.algorithm, key_size=big.key_size, purpose="signature")
+    assert big.key_size == size and not found.assessed
+    assert f"key size {size} is not a plausible number of bits" in (found.reason or "")
+    assert catalog.resolve(normal.algorithm, key_size=normal.key_size, purpose="signature").assessed

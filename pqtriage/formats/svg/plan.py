@@ -10,6 +10,7 @@ start and a legend. All inventory text is XML-escaped and control characters
 from __future__ import annotations
 
 import datetime
+import math
 
 from pqtriage.formats.text import xml_attr, xml_text
 from pqtriage.plan.planner import Plan, SystemPlan, plan_status
@@ -35,18 +36,26 @@ def _shorten(text: str, limit: int) -> str:
     return text if len(text) <= limit else text[: limit - 1] + "…"
 
 
+def _year_start(year: int) -> int:
+    """Proleptic Gregorian ordinal of 1 January of a year, also past 9999 (datetime stops there)."""
+    before = year - 1
+    return before * 365 + before // 4 - before // 100 + before // 400 + 1
+
+
 class _Scale:
     """Maps dates to x positions over whole calendar years."""
 
     def __init__(self, first_year: int, last_year: int) -> None:
-        self.first = datetime.date(first_year, 1, 1)
-        self.last = datetime.date(last_year + 1, 1, 1)
-        self.span = (self.last - self.first).days
+        self.first_year = first_year
+        self.first = _year_start(first_year)
+        self.last = _year_start(last_year + 1)
+        self.span = self.last - self.first
         self.left = LABEL_WIDTH
         self.width = WIDTH - LABEL_WIDTH - RIGHT_MARGIN
 
-    def x(self, day: datetime.date) -> float:
-        return round(self.left + self.width * (day - self.first).days / self.span, 2)
+    def x(self, day: datetime.date | int) -> float:
+        ordinal = day if isinstance(day, int) else day.toordinal()
+        return round(self.left + self.width * (ordinal - self.first) / self.span, 2)
 
 
 def _years(plan: Plan) -> tuple[int, int]:
@@ -73,7 +82,7 @@ def _row(scale: _Scale, system: SystemPlan, index: int) -> list[str]:
         f'<text x="{LABEL_WIDTH - 8}" y="{mid + 4}" text-anchor="end"{weight}>{xml_text(label)}</text>'
     )
     x0 = scale.x(system.planned_start)
-    x1 = scale.x(system.planned_finish + datetime.timedelta(days=1))
+    x1 = scale.x(system.planned_finish.toordinal() + 1)
     tooltip = f"{item.id}: {system.planned_start} to {system.planned_finish} ({word})"
     out.append(
         f'<rect class="bar" data-system={xml_attr(item.id)} x="{x0}" y="{mid - BAR_HEIGHT / 2}" '
@@ -83,7 +92,7 @@ def _row(scale: _Scale, system: SystemPlan, index: int) -> list[str]:
     if item.start_by is not None:
         sx = max(scale.x(item.start_by), scale.left + 5)
         top = mid - BAR_HEIGHT / 2 - 1
-        if item.start_by < scale.first:
+        if item.start_by.toordinal() < scale.first:
             out.append(
                 f'<text class="overdue" x="{sx + 8}" y="{top}" font-size="10" '
                 f'fill="{START_BY_COLOUR}">overdue since {item.start_by.year}</text>'
@@ -101,7 +110,7 @@ def _row(scale: _Scale, system: SystemPlan, index: int) -> list[str]:
         if not result.met:
             missed.add(d.date)
     for date, notes in sorted(by_date.items()):
-        dx = scale.x(date + datetime.timedelta(days=1))
+        dx = scale.x(date.toordinal() + 1)
         colour = DEADLINE_MISSED_COLOUR if date in missed else DEADLINE_MET_COLOUR
         # A white halo keeps the tick visible where it crosses a bar of the same colour.
         out.append(
@@ -160,12 +169,15 @@ def plan_svg(plan: Plan, title: str = "Post-quantum migration timeline") -> str:
         f'<text x="12" y="42" fill="#555555">{xml_text(subtitle)}</text>',
         '<g class="axis">',
     ]
-    step = 1 if last_year - first_year < 16 else 2  # keep year labels from overlapping
+    # Keep year labels from overlapping: at most about 24 labels and 200 grid lines.
+    step = 1 if last_year - first_year < 16 else max(2, math.ceil((last_year - first_year + 1) / 24))
+    grid = max(1, math.ceil((last_year - first_year + 2) / 200))
     for year in range(first_year, last_year + 2):
-        x = scale.x(datetime.date(year, 1, 1))
-        out.append(f'<line x1="{x}" x2="{x}" y1="{TOP - 6}" y2="{bottom}" stroke="#dddddd"/>')
+        x = scale.x(_year_start(year))
+        if (year - first_year) % grid == 0:
+            out.append(f'<line x1="{x}" x2="{x}" y1="{TOP - 6}" y2="{bottom}" stroke="#dddddd"/>')
         if year <= last_year and (year - first_year) % step == 0:
-            mid = (x + scale.x(datetime.date(year + 1, 1, 1))) / 2
+            mid = (x + scale.x(_year_start(year + 1))) / 2
             out.append(
                 f'<text x="{round(mid, 2)}" y="{TOP - 10}" text-anchor="middle">{year}</text>'
             )

@@ -9,14 +9,14 @@ from rich.text import Text
 
 from pqtriage.formats.labels import DIFF_GROUPS, diff_headline, verdict_text
 from pqtriage.formats.table.styles import VERDICT_STYLE
-from pqtriage.formats.text import visible
+from pqtriage.formats.text import MAX_CELL_CHARACTERS, cell
 from pqtriage.model.diff import Diff
 
 
 def terminal_view(diff: Diff) -> RenderableType:
     """Counts by verdict, then one table row per changed system."""
-    title = Text(f"Changes from {visible(diff.old.label)} ({diff.old.as_of}) to "
-                 f"{visible(diff.new.label)} ({diff.new.as_of})", style="bold")
+    title = Text(f"Changes from {cell(diff.old.label, MAX_CELL_CHARACTERS)} ({diff.old.as_of}) to "
+                 f"{cell(diff.new.label, MAX_CELL_CHARACTERS)} ({diff.new.as_of})", style="bold")
     counts = Table(box=box.SIMPLE_HEAD, header_style="bold", pad_edge=False)
     for name, justify in (("Verdict", "left"), ("Before", "right"), ("Now", "right"), ("Change", "right")):
         counts.add_column(name, justify=justify)  # type: ignore[arg-type]
@@ -28,10 +28,10 @@ def terminal_view(diff: Diff) -> RenderableType:
         changes.add_column(name, overflow="fold")
     for key, label in DIFF_GROUPS:
         for change in getattr(diff, key):
-            changes.add_row(label, Text(visible(change.id)), verdict_text(change.old), verdict_text(change.new),
+            changes.add_row(label, Text(cell(change.id, MAX_CELL_CHARACTERS)), verdict_text(change.old), verdict_text(change.new),
                             f"{change.old_rank or '-'} -> {change.new_rank or '-'}")
     parts: list[RenderableType] = [title, Text(diff_headline(diff)), counts]
     if changes.row_count:
         parts.append(changes)
-    parts += [Text(f"note: {visible(n)}", style="yellow") for n in diff.notes]
+    parts += [Text(f"note: {cell(n, 4 * MAX_CELL_CHARACTERS)}", style="yellow") for n in diff.notes]
     return Group(*parts)

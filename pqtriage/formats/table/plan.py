@@ -14,7 +14,8 @@ from rich.console import Group, RenderableType
 from rich.table import Table
 from rich.text import Text
 
-from pqtriage.formats.text import control_escapes
+from pqtriage.errors import chain_text
+from pqtriage.formats.text import MAX_CELL_CHARACTERS, cell
 from pqtriage.plan.calendar import quarter_label, quarter_of
 from pqtriage.plan.planner import Plan, SystemPlan, plan_status
 
@@ -28,9 +29,13 @@ STATUS_STYLE: dict[str, str] = {
 """Terminal style of each plan status word."""
 
 
-def literal(text: str, style: str = "") -> Text:
-    """Input text shown as written: no markup, control characters escaped."""
-    return Text(control_escapes(text), style=style)
+MAX_TIMELINE = 100
+"""Periods drawn in the timeline chart (more than a 100-column terminal shows)."""
+
+
+def literal(text: str, style: str = "", limit: int = MAX_CELL_CHARACTERS) -> Text:
+    """Input text shown as written: no markup, invisible characters escaped, bounded length."""
+    return Text(cell(text, limit), style=style)
 
 
 def status_of(system: SystemPlan) -> tuple[str, str]:
@@ -51,9 +56,8 @@ def _period_label(plan: Plan, quarter: int, period: Period) -> str:
 
 def _timeline(plan: Plan, system: SystemPlan, period: Period, first: int, last: int) -> Text:
     """One character per period: █ migrating, S start-by, D earliest deadline, · idle."""
-    active = {
-        _period_key(plan, q, period) for q in range(system.slot.start, system.slot.finish + 1)
-    }
+    first_active = _period_key(plan, system.slot.start, period)
+    last_active = _period_key(plan, system.slot.finish, period)
     marks: dict[int, str] = {}
     if system.candidate.start_by is not None:
         marks[_period_key(plan, quarter_of(plan.origin, system.candidate.start_by), period)] = "S"
@@ -62,13 +66,22 @@ def _timeline(plan: Plan, system: SystemPlan, period: Period, first: int, last: 
         marks[_period_key(plan, quarter_of(plan.origin, earliest.date), period)] = "D"
     text = Text()
     _, style = status_of(system)
+    run_char, run_style, run_length = "", "", 0  # consecutive equal cells go in as one span
     for key in range(first, last + 1):
+        active = first_active <= key <= last_active
         if key in marks:
-            text.append(marks[key], style="bold reverse" if key in active else "bold")
-        elif key in active:
-            text.append("█", style=style)
+            char, char_style = marks[key], "bold reverse" if active else "bold"
+        elif active:
+            char, char_style = "█", style
         else:
-            text.append("·", style="dim")
+            char, char_style = "·", "dim"
+        if (char, char_style) != (run_char, run_style):
+            if run_length:
+                text.append(run_char * run_length, style=run_style)
+            run_char, run_style, run_length = char, char_style, 0
+        run_length += 1
+    if run_length:
+        text.append(run_char * run_length, style=run_style)
     return text
 
 
@@ -82,7 +95,9 @@ def plan_view(plan: Plan, period: Period = "year") -> RenderableType:
             if date is not None:
                 last_q = max(last_q, quarter_of(plan.origin, date))
     first = _period_key(plan, first_q, period)
-    last = _period_key(plan, last_q, period)
+    # The chart is cropped at the terminal's width anyway: draw at most MAX_TIMELINE periods
+    # (a chain over thousands of years would otherwise draw millions of characters).
+    last = min(_period_key(plan, last_q, period), first + MAX_TIMELINE - 1)
     unit = "year" if period == "year" else "quarter"
     table = Table(box=box.SIMPLE_HEAD, pad_edge=False, collapse_padding=True, title_justify="left")
     table.add_column("Period", no_wrap=True)
@@ -142,19 +157,20 @@ def plan_view(plan: Plan, period: Period = "year") -> RenderableType:
     )
     parts: list[RenderableType] = [header, table, chart, legend]
     path = Text("Critical path: ")
-    path.append(literal(" -> ".join(plan.critical_path) or "none"))
+    path.append(literal(chain_text(list(plan.critical_path)) or "none", limit=4 * MAX_CELL_CHARACTERS))
     parts.append(path)
     for system in plan.systems:
         for miss in system.misses:
             line = Text("  ")
             line.append(literal(system.candidate.id, style="bold"))
             line.append(f" misses {miss.target} {miss.date}: ")
-            line.append(literal("; ".join(f.text for f in miss.fixes) or "no fix found"))
+            line.append(literal("; ".join(f.text for f in miss.fixes) or "no fix found",
+                                limit=4 * MAX_CELL_CHARACTERS))
             parts.append(line)
         for reason in system.deadlines.undetermined:
             line = Text("  ")
             line.append(literal(system.candidate.id, style="bold"))
             line.append(" undetermined: ")
-            line.append(literal(reason))
+            line.append(literal(reason, limit=4 * MAX_CELL_CHARACTERS))
             parts.append(line)
     return Group(*parts)

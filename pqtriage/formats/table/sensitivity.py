@@ -7,7 +7,7 @@ from rich.text import Text
 
 from pqtriage.formats.labels import VERDICT_LABEL, sensitivity_title
 from pqtriage.formats.table.styles import VERDICT_STYLE
-from pqtriage.formats.text import visible
+from pqtriage.formats.text import MAX_CELL_CHARACTERS, cell
 from pqtriage.model.sensitivity import Sensitivity
 
 
@@ -20,7 +20,7 @@ def band_table(s: Sensitivity) -> Table:
     for name in ("Central", "Optimistic end", "Pessimistic end"):
         table.add_column(name, no_wrap=True)
     for flip in s.band_flips:
-        table.add_row(Text(visible(flip.system_id)), *(
+        table.add_row(Text(cell(flip.system_id, MAX_CELL_CHARACTERS)), *(
             Text(VERDICT_LABEL[v], style=VERDICT_STYLE[v])
             for v in (flip.central, flip.optimistic, flip.pessimistic)))
     return table
@@ -34,7 +34,7 @@ def sensitivity_table(s: Sensitivity) -> Table:
     for shift in s.shifts:
         table.add_column(f"{shift:+d} y", no_wrap=True)
     for row in s.rows:
-        cells = [Text(visible(row.system_id)), Text(VERDICT_LABEL[row.baseline], style=VERDICT_STYLE[row.baseline])]
+        cells = [Text(cell(row.system_id, MAX_CELL_CHARACTERS)), Text(VERDICT_LABEL[row.baseline], style=VERDICT_STYLE[row.baseline])]
         for _, verdict in row.by_shift:
             cells.append(Text(VERDICT_LABEL[verdict], style=VERDICT_STYLE[verdict]))
         table.add_row(*cells)

@@ -10,7 +10,7 @@ from rich.text import Text
 from pqtriage.formats.labels import VERDICT_LABEL
 from pqtriage.formats.notes import CAUTIONS
 from pqtriage.formats.table.styles import VERDICT_STYLE
-from pqtriage.formats.text import visible
+from pqtriage.formats.text import MAX_CELL_CHARACTERS, cell
 from pqtriage.model.verdict import TriageResult, Verdict
 
 
@@ -29,13 +29,13 @@ def summary_block(result: TriageResult, top: int | None = None) -> Text:
     text.append("\n")
     selection = result.selection
     if selection is not None and (selection.where or selection.group_by):
-        text.append(visible(selection.describe()) + "\n", style="yellow" if selection.hidden_unassessed else "")
+        text.append(cell(selection.describe(), 4 * MAX_CELL_CHARACTERS) + "\n", style="yellow" if selection.hidden_unassessed else "")
     else:
         top = selection.top if selection is not None else top
         if top is not None and top < summary.systems:
             text.append(f"Showing the top {top} of {summary.systems} systems.\n")
     if summary.overdue:
-        shown = ", ".join(visible(s) for s in summary.overdue[:8])
+        shown = ", ".join(cell(s, 60) for s in summary.overdue[:8])
         more = f" and {len(summary.overdue) - 8} more" if len(summary.overdue) > 8 else ""
         text.append(f"Overdue (start-by date passed or broken now): {shown}{more}\n", style="red")
     upcoming = sorted(i.start_by for i in result.items if i.start_by and i.start_by > result.as_of)
@@ -44,7 +44,7 @@ def summary_block(result: TriageResult, top: int | None = None) -> Text:
     if any(item.system.assumed for item in result.items):
         text.append("* some x or y values are assumed defaults, not inventory facts\n")
     for warning in result.inventory.warnings[:5]:
-        text.append(f"warning: {visible(warning)}\n", style="yellow")
+        text.append(f"warning: {cell(warning, 4 * MAX_CELL_CHARACTERS)}\n", style="yellow")
     text.append(
         "x = years data or signatures must stay secure, y = migration years, "
         "P(exp) = probability the CRQC arrives before x + y.\n",

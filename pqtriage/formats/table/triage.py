@@ -11,7 +11,7 @@ from pqtriage.formats.bands import probability_range, system_band
 from pqtriage.formats.labels import VERDICT_LABEL, short_replacement
 from pqtriage.formats.table.styles import VERDICT_STYLE
 from pqtriage.formats.table.summary import summary_block
-from pqtriage.formats.text import visible
+from pqtriage.formats.text import MAX_CELL_CHARACTERS, cell
 from pqtriage.model.verdict import SystemAssessment, TriageResult
 
 _PURPOSE_SHORT = {
@@ -71,13 +71,13 @@ def _row(item: SystemAssessment, as_of: object) -> list[RenderableType]:
     else:
         spec = weakest.deciding or weakest.spec
         name = spec.name if spec else weakest.use.algorithm
-        algo = Text(visible(name))
+        algo = Text(cell(name, MAX_CELL_CHARACTERS))
         algo.append(f" {_PURPOSE_SHORT[weakest.use.purpose.value]}", style="dim")
         x = _years(weakest.x_years)
         replacement = short_replacement(weakest.replacement)
     probability = _probability(item)
     start_by = _start_by(item, as_of)
-    system = Text(visible(item.system.id))
+    system = Text(cell(item.system.id, MAX_CELL_CHARACTERS))
     if item.system.assumed:
         system.append("*", style="bold")
     return [
@@ -89,17 +89,18 @@ def _row(item: SystemAssessment, as_of: object) -> list[RenderableType]:
         start_by,
         probability,
         Text(VERDICT_LABEL[item.verdict], style=VERDICT_STYLE[item.verdict]),
-        Text(visible(replacement)),
+        Text(cell(replacement, MAX_CELL_CHARACTERS)),
     ]
 
 
 def ranked_table(result: TriageResult, top: int | None = None, group: str | None = None,
                  items: tuple[SystemAssessment, ...] | None = None) -> Table:
     """The ranked table: one row per system, most urgent first (one group's rows if given)."""
-    title = f"Post-quantum triage of {visible(result.inventory.organization)}" if group is None else group
+    title = (f"Post-quantum triage of {cell(result.inventory.organization, MAX_CELL_CHARACTERS)}"
+             if group is None else group)
     table = Table(
         title=Text(title),
-        caption=Text(f"as of {result.as_of.isoformat()}, profile {visible(result.profile.name)}"
+        caption=Text(f"as of {result.as_of.isoformat()}, profile {cell(result.profile.name, MAX_CELL_CHARACTERS)}"
                      + ("; dim: 10-90 % band (latest start-by, P range); ranked by the central value"
                         if result.band is not None else "")),
         header_style="bold",
@@ -133,5 +134,5 @@ def terminal_view(result: TriageResult, top: int | None = None) -> RenderableTyp
     tables: list[RenderableType] = []
     for label, items in groups(result, selection.group_by):
         count = f"{len(items)} system" + ("" if len(items) == 1 else "s")
-        tables.append(ranked_table(result, None, f"{selection.group_by}: {visible(label)} ({count})", items))
+        tables.append(ranked_table(result, None, f"{selection.group_by}: {cell(label, MAX_CELL_CHARACTERS)} ({count})", items))
     return Group(*tables, summary_block(result))

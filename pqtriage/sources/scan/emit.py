@@ -17,12 +17,12 @@ import re
 from collections.abc import Mapping
 from typing import Any
 
-import yaml
-
 from pqtriage.model.inventory import IN_USE, Purpose
 from pqtriage.model.validity import MAX_YEARS, remaining_years
 from pqtriage.sources.scan.findings import Finding
 from pqtriage.sources.scan.grouping import Group
+from pqtriage.sources.schema import USE_FIELDS
+from pqtriage.sources.yaml_stream import dump_document
 
 #: Documented defaults (docs/discovery.md): a scan cannot know these, the owner must set them.
 DEFAULT_SHELF_LIFE_YEARS = 5
@@ -31,7 +31,6 @@ DEFAULT_EXPOSURE = "internal"
 ASSUMED_SYSTEM_FIELDS = ["shelf_life_years", "migration_years", "exposure"]
 DEFAULT_ORGANIZATION = "Scanned inventory"
 
-_DUMPER: Any = getattr(yaml, "CSafeDumper", yaml.SafeDumper)
 _SLUG = re.compile(r"[^a-z0-9]+")
 
 
@@ -101,6 +100,47 @@ def use_dict(finding: Finding, as_of: dt.date | None = None) -> dict[str, Any]:
     if notes:
         use["notes"] = notes
     use["source"] = finding.locator()
+    return conform_use(use)
+
+
+_USE_SPECS = {spec.name: spec for spec in USE_FIELDS}
+
+
+def conform_use(use: dict[str, Any]) -> dict[str, Any]:
+    """A use that the inventory reader accepts whatever the material held (a scan
+    never writes an inventory that ``triage`` refuses whole).
+
+    Per item: an empty text field is left out (an empty algorithm becomes ``unknown``, so the
+    use is unassessed); a number above the format's maximum is written as the maximum (the
+    cautious side for a trust period) and one below the minimum is left out; each change is
+    said in the use's notes. Key sizes have no range in the format: the catalog makes a size
+    it cannot assess (a 100,000-bit RSA key) an unassessed use with the reason.
+    """
+    said: list[str] = []
+    for name, value in list(use.items()):
+        spec = _USE_SPECS.get(name)
+        if spec is None or value is None:
+            continue
+        if spec.kind == "str" and isinstance(value, str) and not value.strip():
+            if name == "algorithm":
+                use[name] = "unknown"  # an unknown use: unassessed in triage, kept in every output
+            else:
+                del use[name]
+            said.append(f"{name} was empty in the material")
+        elif spec.kind in ("number", "integer") and isinstance(value, (int, float)) and not isinstance(value, bool):
+            if spec.maximum is not None and value > spec.maximum:
+                use[name] = spec.maximum if spec.kind == "number" else int(spec.maximum)
+                said.append(f"{name} {value:g} is above the format's maximum {spec.maximum:g}; written as "
+                            f"{spec.maximum:g}")
+            elif spec.below_minimum(value):
+                del use[name]
+                said.append(f"{name} {value:g} is below {spec.lower_bound_text()}; left out")
+    if said:
+        notes = "; ".join(said)
+        use["notes"] = f"{use['notes']}; {notes}" if use.get("notes") else notes
+        source = use.pop("source", None)  # keep the source last, as in every other use
+        if source is not None:
+            use["source"] = source
     return use
 
 
@@ -148,28 +188,26 @@ def render(document: Mapping[str, Any], output_format: str = "yaml") -> str:
     """Inventory document as YAML (block style, key order kept) or JSON text."""
     if output_format == "json":
         return render_json(document)
-    # libyaml's emitter when PyYAML has it (the same text here, several times faster on large
-    # scans); both are safe dumpers.
-    return yaml.dump(
-        dict(document), Dumper=_DUMPER, sort_keys=False, allow_unicode=True,
-        default_flow_style=False, width=100,
-    )
+    # One pass, hidden characters escaped (pqtriage.sources.yaml_stream).
+    return dump_document(document)
 
 
-_USE_ENCODER = json.JSONEncoder(ensure_ascii=False, check_circular=False)
+_USE_ENCODER = json.JSONEncoder(ensure_ascii=True, check_circular=False)
 """One encoder for every use (json.dumps with options builds a new encoder on each call)."""
 
 
 def render_json(document: Mapping[str, Any]) -> str:
     """JSON with one use per line: indented like ``indent=2`` down to the uses, each use on one
-    line. The same data; the uses go through the C encoder, so large scans (hundreds of
+    line, ASCII only (a lone surrogate of an undecodable file name becomes ``\\udcXX``, and no
+    control or bidi character reaches a terminal that shows the file). The same data; the uses
+    go through the C encoder, so large scans (hundreds of
     thousands of uses) are written in a fraction of the time the indenting encoder takes."""
     systems = document.get("systems")
     if not isinstance(systems, list) or not all(isinstance(s, Mapping) for s in systems):
-        return json.dumps(document, indent=2, ensure_ascii=False) + "\n"
+        return json.dumps(document, indent=2, ensure_ascii=True) + "\n"
 
     def value(item: Any, depth: int) -> str:
-        text = json.dumps(item, indent=2, ensure_ascii=False)
+        text = json.dumps(item, indent=2, ensure_ascii=True)
         return text.replace("\n", "\n" + "  " * depth)
 
     lines = ["{"]

@@ -60,6 +60,9 @@ class ProblemKind(str, Enum):
     """Deliberately not read: symlink loop, special file, oversized file."""
     UNREACHABLE = "unreachable"
     """A probe target that could not be reached or did not speak the protocol."""
+    WARNING = "warning"
+    """Read, but a library warned about it (a certificate serial number that is not positive):
+    the item is kept, the warning is noted beside it."""
     NOT_UNDERSTOOD = "not understood"
     """A file of a kind a finder reads (by name or content) whose content it could not use."""
 

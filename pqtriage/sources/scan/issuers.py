@@ -93,30 +93,34 @@ def ecdsa_order_bits(cert: x509.Certificate) -> int | None:
     return next((size for size in _ORDER_SIZES if size >= longest), None)
 
 
+MAX_ISSUER_CANDIDATES = 16
+"""Signatures verified per certificate at most. 10,000 certificates sharing one subject name
+(or one copied 10,000 times) would otherwise verify each against all: 10^8 checks."""
+
+
 def _index(findings: Iterable[Finding]) -> tuple[dict[str, list[Finding]], dict[str, list[Finding]]]:
-    by_key_id: dict[str, list[Finding]] = {}
-    by_name: dict[str, list[Finding]] = {}
+    """Candidates by subject key identifier and by subject name, each certificate once per key
+    (indexed once here, so the search per signature does not walk duplicates)."""
+    by_key_id: dict[str, dict[bytes, Finding]] = {}
+    by_name: dict[str, dict[bytes, Finding]] = {}
     for finding in findings:
         if finding.kind is not FindingKind.CERTIFICATE_KEY or finding.certificate is None:
             continue
+        fingerprint = finding.certificate.tbs_certificate_bytes
         if finding.subject_key_id:
-            by_key_id.setdefault(finding.subject_key_id, []).append(finding)
+            by_key_id.setdefault(finding.subject_key_id, {}).setdefault(fingerprint, finding)
         if finding.subject is not None:
-            by_name.setdefault(finding.subject, []).append(finding)
-    return by_key_id, by_name
+            by_name.setdefault(finding.subject, {}).setdefault(fingerprint, finding)
+    return ({k: list(v.values()) for k, v in by_key_id.items()},
+            {k: list(v.values()) for k, v in by_name.items()})
 
 
-def _unique(candidates: Iterable[Finding]) -> list[Finding]:
-    """Candidates once each: the same certificate found in two files is one issuer."""
-    seen: set[bytes] = set()
-    unique = []
-    for candidate in candidates:
-        assert candidate.certificate is not None
-        fingerprint = candidate.certificate.tbs_certificate_bytes
-        if fingerprint not in seen:
-            seen.add(fingerprint)
-            unique.append(candidate)
-    return unique
+def _own_first(candidates: list[Finding], own: bytes) -> list[Finding]:
+    """The certificate itself first among its candidates (a self-signature is checked at once)."""
+    for index, candidate in enumerate(candidates):
+        if candidate.certificate is not None and candidate.certificate.tbs_certificate_bytes == own:
+            return [candidate, *candidates[:index], *candidates[index + 1:]] if index else candidates
+    return candidates
 
 
 def find_issuer(
@@ -127,12 +131,20 @@ def find_issuer(
     """The key finding of the certificate that made this signature, and how it was found."""
     cert = signature.certificate
     assert cert is not None
-    by_id = _unique(by_key_id.get(signature.authority_key_id or "", []))
-    named = [c for c in _unique(by_name.get(signature.issuer or "", [])) if c not in by_id]
+    own_bytes = cert.tbs_certificate_bytes
+    by_id = _own_first(by_key_id.get(signature.authority_key_id or "", []), own_bytes)
+    taken = {c.certificate.tbs_certificate_bytes for c in by_id if c.certificate is not None}
+    named = _own_first([c for c in by_name.get(signature.issuer or "", [])
+                        if c.certificate is not None and c.certificate.tbs_certificate_bytes not in taken],
+                       own_bytes)
     unverifiable: list[Finding] = []
     refused: list[Finding] = []
+    budget = MAX_ISSUER_CANDIDATES
     for route, candidates in (("authority key identifier", by_id), ("issuer name", named)):
         for candidate in candidates:
+            if budget <= 0:
+                break
+            budget -= 1
             assert candidate.certificate is not None
             verdict = verify_signature(cert, candidate.certificate)
             if verdict:

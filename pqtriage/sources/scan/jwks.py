@@ -11,6 +11,7 @@ import binascii
 import json
 from typing import Any
 
+from pqtriage.jsonio import MAX_JSON_DEPTH, too_deep
 from pqtriage.model.inventory import Purpose, SourceRef
 from pqtriage.sources.scan.findings import (
     Finding,
@@ -94,9 +95,12 @@ def looks_like_jwk(data: bytes) -> bool:
 
 def parse_jwks(data: bytes, path: str) -> ParseOutcome:
     """Describe a JWK Set (``{"keys": [...]}``) or a single JWK."""
+    if too_deep(data):  # json.loads would recurse once per level: refuse deep files first
+        problem = ScanProblem(path, ProblemKind.CORRUPT, f"JSON nested deeper than {MAX_JSON_DEPTH} levels")
+        return ParseOutcome(problems=(problem,), recognised=True)
     try:
         document = json.loads(data)
-    except (ValueError, UnicodeDecodeError):
+    except (ValueError, UnicodeDecodeError, RecursionError):
         return ParseOutcome()
     if isinstance(document, dict) and isinstance(document.get("keys"), list):
         entries: list[tuple[str | None, Any]] = [

@@ -85,11 +85,21 @@ def parse_pem(data: bytes, path: str, password: bytes | None) -> ParseOutcome:
     findings: list[Finding] = []
     problems: list[ScanProblem] = []
     number = 0
+    line, counted = 1, 0  # lines counted so far: one pass over the file, not one per block
     match = _next_begin(data, 0)
     while match is not None:
         number += 1
+        if number > MAX_PEM_BLOCKS:
+            line += data.count(b"\n", counted, match.start())
+            findings.append(_rest_not_described(data, match.start(), path, line, number))
+            problems.append(ScanProblem(
+                f"{path}#block{number}", ProblemKind.SKIPPED,
+                f"{findings[-1].notes[0]}; split the file to scan them",
+            ))
+            break
         label = match.group(1).decode("ascii")
-        line = data.count(b"\n", 0, match.start()) + 1
+        line += data.count(b"\n", counted, match.start())
+        counted = match.start()
         source = SourceRef(path, line=line, detail=f"block{number}")
         place = f"{path}#block{number}"
         end = _end_line(data, match.group(1), match.end())
@@ -107,6 +117,24 @@ def parse_pem(data: bytes, path: str, password: bytes | None) -> ParseOutcome:
             continue
         findings.extend(outcome)
     return ParseOutcome(tuple(findings), tuple(problems), recognised=True)
+
+
+MAX_PEM_BLOCKS = 10_000
+"""Blocks described per PEM file. The inventory a scan writes must stay within what ``triage``
+reads (16 MiB): one file of 39,000 certificates would describe 78,000 uses in about 20 MB. The
+blocks past the limit stay in the inventory as one unassessed use that says how many they are."""
+
+
+def _rest_not_described(data: bytes, start: int, path: str, line: int, number: int) -> Finding:
+    rest = data.count(b"-----BEGIN ", start)
+    return Finding(
+        source=SourceRef(path, line=line, detail=f"block{number}"),
+        kind=FindingKind.DAMAGED,
+        algorithm="unknown",
+        purpose=Purpose.AUTHENTICATION,
+        notes=(f"{rest:,} more PEM blocks (block {number} on) not described: more than "
+               f"{MAX_PEM_BLOCKS:,} blocks in one file",),
+    )
 
 
 class _BlockError(Exception):

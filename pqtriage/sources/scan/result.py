@@ -13,7 +13,7 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
-from pqtriage.errors import EXIT_FINDINGS, EXIT_OK, InventoryError, Place, UsageError
+from pqtriage.errors import EXIT_FINDINGS, EXIT_OK, InventoryError, Place, ScanError, UsageError
 from pqtriage.sources.roundtrip import dump_round_trip, is_round_trip
 from pqtriage.sources.scan.emit import (
     ASSUMED_SYSTEM_FIELDS,
@@ -27,6 +27,8 @@ from pqtriage.sources.scan.emit import (
 from pqtriage.sources.scan.findings import Finding, FindingKind
 from pqtriage.sources.scan.grouping import GroupBy, group_findings
 from pqtriage.sources.scan.merge import merge_inventory
+from pqtriage.sources.schema import MAX_MIGRATION_YEARS, MAX_SHELF_LIFE_YEARS
+from pqtriage.yamlio import MAX_FILE_BYTES, MAX_NODES
 
 OUTPUT_FORMATS = ("yaml", "json")
 
@@ -43,6 +45,8 @@ class CommandResult:
     """0 when everything was read or reached, 1 otherwise."""
     written: str | None = None
     """Path the inventory was written to, if any."""
+    read: frozenset[tuple[int, int]] = frozenset()
+    """(device, inode) of every file the run read: ``-o`` may not name one of them."""
     scan_summary: dict[str, Any] | None = None
     """Per-finder counts and the files not understood (scan only), as plain data for JSON."""
 
@@ -54,9 +58,12 @@ def check_format(output_format: str) -> None:
 
 
 def check_years(shelf_life_years: float, migration_years: float) -> None:
-    """Refuse negative assumed years."""
-    if shelf_life_years < 0 or migration_years < 0:
-        raise UsageError("shelf-life and migration years must not be negative")
+    """Refuse assumed years the inventory format would refuse (the output must always triage)."""
+    if not 0 <= shelf_life_years <= MAX_SHELF_LIFE_YEARS:
+        raise UsageError(f"--shelf-life {shelf_life_years:g} is outside 0..{MAX_SHELF_LIFE_YEARS:g} years")
+    if not 0 < migration_years <= MAX_MIGRATION_YEARS:
+        raise UsageError(f"--migration-years {migration_years:g} must be more than 0 and at most "
+                         f"{MAX_MIGRATION_YEARS:g} years", hint="a migration takes time: for example 0.5")
 
 
 def load_existing_text(merge: str) -> tuple[Any, str]:
@@ -142,6 +149,27 @@ def finish_inventory(
         if output_format == "yaml" and is_round_trip(document):
             # Comments, key order, flow or block style and blank lines of the file are kept.
             text = dump_round_trip(document, original)
+            check_readable(text, len(findings))
             return CommandResult(text, summary, EXIT_FINDINGS if failed else EXIT_OK)
     text = render(document, output_format)
+    check_readable(text, len(findings))
     return CommandResult(text, summary, EXIT_FINDINGS if failed else EXIT_OK)
+
+
+def check_readable(text: str, uses: int) -> None:
+    """Refuse to hand back an inventory that ``triage`` would refuse whole.
+
+    The reader takes at most 16 MiB and 1,000,000 values (pqtriage.yamlio); every value of
+    the block YAML (and of the indented JSON) is on a line of its own, so counting lines
+    bounds the values. Nothing is written then: the fix is to scan in several runs.
+    """
+    size = len(text.encode("utf-8", "backslashreplace"))
+    lines = text.count("\n")
+    if size <= MAX_FILE_BYTES and lines <= MAX_NODES:
+        return
+    raise ScanError(
+        f"the inventory of {uses:,} uses would be {size / (1024 * 1024):.1f} MiB with up to {lines:,} "
+        f"values, more than 'pqtriage triage' reads ({MAX_FILE_BYTES // (1024 * 1024)} MiB, "
+        f"{MAX_NODES:,} values); nothing was written",
+        hint="scan fewer folders per run (one inventory each), or group them with --group-by",
+    )

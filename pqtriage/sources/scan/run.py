@@ -131,7 +131,8 @@ def scan_inventory(
     )  # fmt: skip
     details = result.summary.to_dict() if result.summary is not None else {}
     details["files_read"] = result.files_read
-    return dataclasses.replace(inventory, scan_summary=details)
+    read = frozenset(entry.identity for entry in entries if entry.identity is not None)
+    return dataclasses.replace(inventory, scan_summary=details, read=read)
 
 
 def damaged_findings(problems: tuple[ScanProblem, ...] | list[ScanProblem]) -> list[Finding]:
@@ -167,7 +168,9 @@ def _group_rule(group_by: str) -> GroupBy:
 
 def _problem_counts(problems: tuple[ScanProblem, ...]) -> list[str]:
     failed = sum(problem.is_failure for problem in problems)
-    skipped = len(problems) - failed
-    if not problems:
-        return ["everything was read"]
-    return [f"{failed} could not be read, {skipped} skipped with a note"]
+    warned = sum(problem.kind is ProblemKind.WARNING for problem in problems)
+    skipped = len(problems) - failed - warned
+    if not failed and not skipped:
+        return ["everything was read" + (f" ({warned} with a library warning)" if warned else "")]
+    text = f"{failed} could not be read, {skipped} skipped with a note"
+    return [text + (f", {warned} read with a library warning" if warned else "")]

@@ -8,7 +8,9 @@ case they are reported as corrupt.
 
 from __future__ import annotations
 
+import dataclasses
 import os
+import warnings
 from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass
 
@@ -56,6 +58,19 @@ def classify(data: bytes, path: str, password: bytes | None = None) -> ParseOutc
     return material_name_fallback(data, path)
 
 
+def warned(found: list[Finding], trouble: list[ScanProblem], path: str,
+           caught: list[warnings.WarningMessage]) -> tuple[list[Finding], list[ScanProblem]]:
+    """Warnings a library raised while one file was read (the cryptography library on a serial
+    number that is not positive, RFC 5280 section 4.1.2.2), recorded instead of printed: a note
+    on each of the file's findings and one summary line each."""
+    if not caught:
+        return found, trouble
+    messages = list(dict.fromkeys(" ".join(str(w.message).split()) for w in caught))
+    notes = tuple(f"library warning: {message}" for message in messages)
+    return ([dataclasses.replace(f, notes=f.notes + notes) for f in found],
+            [*trouble, *(ScanProblem(path, ProblemKind.WARNING, m) for m in messages)])
+
+
 def plan(
     paths: list[str], max_file_bytes: int = DEFAULT_MAX_FILE_BYTES
 ) -> tuple[list[FileEntry], list[ScanProblem]]:
@@ -99,7 +114,10 @@ def scan_entries(
             problems.append(data)
         else:
             read += 1
-            found, trouble = dispatcher.run_file(data, entry.path)
+            with warnings.catch_warnings(record=True) as caught:
+                warnings.simplefilter("always")
+                found, trouble = dispatcher.run_file(data, entry.path)
+            found, trouble = warned(list(found), list(trouble), entry.path, caught)
             findings.extend(found)
             problems.extend(trouble)
         if advance is not None:

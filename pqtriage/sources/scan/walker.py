@@ -26,6 +26,13 @@ class FileEntry:
     """Path as the user named it, joined with the names below it."""
     size: int
     """Size in bytes at walk time."""
+    identity: tuple[int, int] | None = None
+    """(device, inode) at walk time."""
+
+
+MAX_WALK_DEPTH = 4096
+"""Deepest folder nesting walked; deeper folders are skipped with a note (the walk itself keeps
+an explicit stack, so depth never costs recursion)."""
 
 
 def walk(
@@ -34,20 +41,34 @@ def walk(
     """Yield every regular file below the given paths, or a problem for what is not read.
 
     Symbolic links are followed; a link back to a folder already being walked (a loop) or
-    already walked is skipped with a note. Folders are walked in sorted name order.
+    already walked is skipped with a note. Folders are walked in sorted name order, depth
+    first, with an explicit stack (a folder nested 990 deep is walked like any other).
     """
     seen_dirs: set[tuple[int, int]] = set()
     seen_files: set[tuple[int, int]] = set()
     for path in paths:
-        yield from _visit(path, max_file_bytes, seen_dirs, seen_files)
+        # Each stack entry: the names of one folder still to visit (reversed), its path, depth.
+        stack: list[tuple[list[str], str, int]] = []
+        yield from _visit(path, 0, max_file_bytes, seen_dirs, seen_files, stack)
+        while stack:
+            names, folder, depth = stack[-1]
+            if not names:
+                stack.pop()
+                continue
+            name = names.pop()
+            child = name if folder == os.curdir else os.path.join(folder, name)
+            yield from _visit(child, depth + 1, max_file_bytes, seen_dirs, seen_files, stack)
 
 
 def _visit(
     path: str,
+    depth: int,
     max_file_bytes: int,
     seen_dirs: set[tuple[int, int]],
     seen_files: set[tuple[int, int]],
+    stack: list[tuple[list[str], str, int]],
 ) -> Iterator[FileEntry | ScanProblem]:
+    """One path: yield its file entry or problem; a folder pushes its names onto ``stack``."""
     try:
         info = os.stat(path)
     except FileNotFoundError:
@@ -68,14 +89,16 @@ def _visit(
             yield ScanProblem(path, ProblemKind.SKIPPED, "symbolic link loop or folder seen before")
             return
         seen_dirs.add(identity)
+        if depth >= MAX_WALK_DEPTH:
+            yield ScanProblem(path, ProblemKind.SKIPPED,
+                              f"folder nested deeper than {MAX_WALK_DEPTH} levels (not walked)")
+            return
         try:
-            names = sorted(os.listdir(path))
+            names = sorted(os.listdir(path), reverse=True)
         except OSError as error:
             yield ScanProblem(path, ProblemKind.UNREADABLE, error.strerror or "cannot list folder")
             return
-        for name in names:
-            child = name if path == os.curdir else os.path.join(path, name)
-            yield from _visit(child, max_file_bytes, seen_dirs, seen_files)
+        stack.append((names, path, depth))
         return
     if not stat.S_ISREG(info.st_mode):
         yield ScanProblem(path, ProblemKind.SKIPPED, f"special file ({_kind(info.st_mode)})")
@@ -91,7 +114,7 @@ def _visit(
             f"larger than the limit ({info.st_size} > {max_file_bytes} bytes)",
         )
         return
-    yield FileEntry(path, info.st_size)
+    yield FileEntry(path, info.st_size, identity)
 
 
 def _kind(mode: int) -> str:
