@@ -19,6 +19,7 @@ from typing import Any
 from cryptography import x509
 from cryptography.exceptions import UnsupportedAlgorithm
 from cryptography.hazmat.primitives import serialization
+from pyasn1.error import PyAsn1Error
 
 from pqtriage.model.inventory import Purpose, SourceRef
 from pqtriage.sources.scan.certificates import describe_certificate, describe_key
@@ -62,13 +63,20 @@ class KeystoreFinder(Finder):
         loader = jks.KeyStore if kind != "BKS" else None
         candidates: list[Any] = [loader] if loader else [jks.bks.BksKeyStore, jks.bks.UberKeyStore]
         errors = (jks.util.KeystoreException, ValueError, TypeError, IndexError, EOFError,
-                  UnicodeDecodeError, OverflowError, AssertionError, KeyError)  # fmt: skip
+                  UnicodeDecodeError, OverflowError, AssertionError, KeyError,
+                  PyAsn1Error)  # fmt: skip
         wrong_password = False
         for password in context.passwords:
             text = password.decode("utf-8", "replace")
             for candidate in candidates:
                 try:
-                    store = candidate.loads(data, text)
+                    if candidate is jks.KeyStore:
+                        # Integrity first, then each entry on its own: one entry that the
+                        # library cannot decrypt must not hide the others.
+                        store = candidate.loads(data, text, try_decrypt_keys=False)
+                        _open_entries(jks, store, text)
+                    else:
+                        store = candidate.loads(data, text)
                 except jks.util.KeystoreSignatureException:
                     wrong_password = True
                     continue
@@ -95,6 +103,43 @@ class KeystoreFinder(Finder):
             return FinderResult(claimed=True, findings=tuple(findings),
                                 not_understood=f"{why}; {protected} protected entries unread")  # fmt: skip
         return FinderResult(claimed=True, findings=tuple(findings))
+
+
+def _open_entries(jks: Any, store: Any, password: str) -> None:
+    """Decrypts each protected entry with the store password, one entry at a time.
+
+    pyjks reads the key-protection AlgorithmIdentifier's parameters unconditionally; keytool of
+    newer JDKs (seen with JDK 25) omits them for the JKS algorithm, which RFC 5280 §4.1.1.2 allows
+    (parameters are OPTIONAL), and recent pyasn1 refuses to read an absent value. For that
+    algorithm (no parameters needed) the key is decrypted here with pyjks's own JKS routine; an
+    entry still not opened stays protected and is reported unread, never dropped.
+    """
+    for entry in store.entries.values():
+        if not hasattr(entry, "decrypt") or entry.is_decrypted():
+            continue
+        try:
+            entry.decrypt(password)
+        except PyAsn1Error:
+            _decrypt_without_parameters(jks, entry, password)
+        except (jks.util.KeystoreException, ValueError, TypeError, IndexError):
+            continue
+
+
+def _decrypt_without_parameters(jks: Any, entry: Any, password: str) -> None:
+    from pyasn1.codec.der import decoder
+
+    try:
+        info = decoder.decode(entry._encrypted, asn1Spec=jks.rfc5208.EncryptedPrivateKeyInfo())[0]
+        if info["encryptionAlgorithm"]["algorithm"].asTuple() != jks.sun_crypto.SUN_JKS_ALGO_ID:
+            return
+        plain = jks.sun_crypto.jks_pkey_decrypt(info["encryptedData"].asOctets(), password)
+        key_info = decoder.decode(plain, asn1Spec=jks.rfc5208.PrivateKeyInfo())[0]
+        entry._pkey = key_info["privateKey"].asOctets()
+        entry._pkey_pkcs8 = bytes(plain)
+        entry._algorithm_oid = key_info["privateKeyAlgorithm"]["algorithm"].asTuple()
+        entry._encrypted = None
+    except (PyAsn1Error, jks.util.KeystoreException, ValueError, TypeError, IndexError):
+        return
 
 
 def _describe(store: Any, path: str, kind: str, opened: bool) -> list[Finding]:
