@@ -2,7 +2,12 @@
 
 from __future__ import annotations
 
+import datetime as dt
+
 from pqtriage.catalog.spec import AlgorithmSpec, Component, Resolution
+from pqtriage.catalog.transitions import Document, Rule, Standing, Transitions
+from pqtriage.catalog.trust import TrustDefault, TrustDefaults
+from pqtriage.model.inventory import SignatureRole
 
 RSA_2048 = AlgorithmSpec(
     name="RSA-2048", family="RSA", primitive="public-key-encryption", classical_bits=112,
@@ -47,3 +52,35 @@ class FakeCatalog:
         if spec is None:
             return Resolution(None, reason=f"'{algorithm}' is not in the catalog", suggestions=("RSA-2048",))
         return Resolution(spec)
+
+
+def _rule(rule_id: str, status: str, match: dict) -> Rule:
+    return Rule(rule_id, Document("test", "test rules", "test rules", False), "test", "row", match,
+                None, None, status, f"test rule: {status}")
+
+
+FAKE_TRANSITIONS = Transitions((
+    _rule("broken", "broken", {"catalog_status": ["broken"]}),
+    _rule("weak", "disallowed", {"catalog_status": ["weak"]}),
+    _rule("legacy", "legacy", {"catalog_status": ["legacy"]}),
+    _rule("rest", "acceptable", {}),
+))
+"""Classical status straight from each fake spec's classical_status (no dates)."""
+FAKE_TRUST = TrustDefaults({
+    **{role.value: TrustDefault(role.value, 20.0, "test", "test") for role in SignatureRole},
+    "live-authentication": TrustDefault("live-authentication", 0.0, "test", "test"),
+    "unspecified": TrustDefault("unspecified", 5.0, "test", "test"),
+})
+"""Every signature role 20 years, live authentication 0, unknown roles 5."""
+
+
+def _standing(self: FakeCatalog, spec: AlgorithmSpec, purpose: str, as_of: dt.date) -> Standing:
+    return FAKE_TRANSITIONS.standing(spec, purpose, as_of)
+
+
+def _trust(self: FakeCatalog, role: str | None) -> TrustDefault:
+    return FAKE_TRUST.for_role(role)
+
+
+FakeCatalog.classical_standing = _standing  # type: ignore[attr-defined]
+FakeCatalog.trust_default = _trust  # type: ignore[attr-defined]

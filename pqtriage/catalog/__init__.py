@@ -9,6 +9,8 @@ Public API (stable, used by the model and the formats):
 - ``Catalog.suggest(name, limit=3) -> tuple[str, ...]``
 - ``Catalog.specs() -> tuple[AlgorithmSpec, ...]``: every fixed-parameter entry.
 - ``Catalog.spellings() -> tuple[str, ...]``: every known spelling.
+- ``Catalog.classical_standing(spec, purpose, as_of) -> Standing``: classical status by date.
+- ``Catalog.trust_default(role) -> TrustDefault``: default trust period of a signature role.
 """
 
 from __future__ import annotations
@@ -19,9 +21,14 @@ from pathlib import Path
 
 from pqtriage.catalog.loader import read_catalog
 from pqtriage.catalog.resolve import Catalog
-from pqtriage.catalog.spec import AlgorithmSpec, Component, Resolution
+from pqtriage.catalog.spec import AlgorithmSpec, Component, Conflict, Resolution
+from pqtriage.catalog.transitions import Standing, Transitions, read_transitions
+from pqtriage.catalog.trust import TrustDefault, TrustDefaults, read_trust_defaults
 
-__all__ = ["AlgorithmSpec", "Catalog", "Component", "Resolution", "load_catalog", "shipped_path"]
+__all__ = [
+    "AlgorithmSpec", "Catalog", "Component", "Conflict", "Resolution", "Standing", "TrustDefault",
+    "load_catalog", "shipped_path",
+]
 
 
 def shipped_path() -> Path:
@@ -33,7 +40,18 @@ def shipped_path() -> Path:
 def _shipped() -> Catalog:
     from pqtriage.catalog.identifiers import read_identifiers, shipped_identifiers_path
 
-    return Catalog(read_catalog(shipped_path()), read_identifiers(shipped_identifiers_path()))
+    return Catalog(read_catalog(shipped_path()), read_identifiers(shipped_identifiers_path()),
+                   transitions=_shipped_transitions(), trust=_shipped_trust())
+
+
+@functools.lru_cache(maxsize=1)
+def _shipped_transitions() -> Transitions:
+    return read_transitions()
+
+
+@functools.lru_cache(maxsize=1)
+def _shipped_trust() -> TrustDefaults:
+    return read_trust_defaults()
 
 
 def load_catalog(path: Path | None = None) -> Catalog:
@@ -47,4 +65,4 @@ def load_catalog(path: Path | None = None) -> Catalog:
     """
     if path is None:
         return _shipped()
-    return Catalog(read_catalog(Path(path)))
+    return Catalog(read_catalog(Path(path)), transitions=_shipped_transitions(), trust=_shipped_trust())

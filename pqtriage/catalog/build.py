@@ -25,6 +25,10 @@ class SpecBuilder:
         self.category_bits = {row["category"]: row["bits"] for row in raw.categories}
         self.families = {row["family"]: row for row in raw.families}
         self.curves = {row["name"]: row for row in raw.curves}
+        self.scheme_curves = {
+            row[key]: row["name"] for row in raw.curves for key in ("signature", "agreement") if row.get(key)
+        }
+        """Edwards and Montgomery scheme name (Ed25519, X25519 ...) -> its curve."""
         self.fixed: dict[str, AlgorithmSpec] = {}
         """Every fixed spec by canonical name, in catalog order."""
         self.aliases: dict[str, list[str]] = {}
@@ -122,6 +126,7 @@ class SpecBuilder:
             purpose,
             name_row,
             self.table.source(),
+            None,
         )
 
     def on_curve(
@@ -150,6 +155,7 @@ class SpecBuilder:
             purpose,
             name_row,
             curve["source"],
+            curve["name"],
         )
 
     def _family_spec(
@@ -163,6 +169,7 @@ class SpecBuilder:
         purpose: str | None,
         name_row: Row | None,
         extra_source: str,
+        curve: str | None,
     ) -> AlgorithmSpec:
         primitives = family["primitive"]
         wanted = (name_row or {}).get("purpose") or purpose
@@ -187,11 +194,15 @@ class SpecBuilder:
             problem_bits=problem_bits,
             replacements=self.replacement_texts(family.get("replacements"), family["family"]),
             notes=join_notes(*notes),
+            curve=curve,
+            signature_hash=(name_row or {}).get("hash"),
         )
 
     def _named(self, spec: AlgorithmSpec, name_row: Row | None) -> AlgorithmSpec:
         """A fixed spec as reached through a protocol spelling that may add a cap or a note."""
-        if name_row is None or not (name_row.get("status_at_best") or name_row.get("notes")):
+        if name_row is None or not (
+            name_row.get("status_at_best") or name_row.get("notes") or name_row.get("hash")
+        ):
             return spec
         at_best = name_row.get("status_at_best")
         return replace(
@@ -200,6 +211,7 @@ class SpecBuilder:
             classical_status=cast(ClassicalStatus, cap_status(spec.classical_status, at_best)),
             notes=join_notes(spec.notes, name_row.get("notes")),
             source=f"{name_row['source']}; {spec.source}",
+            signature_hash=name_row.get("hash") or spec.signature_hash,
         )
 
     def _curve_specs(self, curve: Row) -> None:
@@ -251,6 +263,9 @@ class SpecBuilder:
             preimage_bits=row.get("preimage_bits"),
             preimage_category=row.get("preimage_category"),
             identifiers={str(k): str(v) for k, v in row.get("identifiers", {}).items()},
+            curve=self.scheme_curves.get(row["name"]),
+            block_bits=row.get("block_bits"),
+            key_sizes=tuple(int(size) for size in row.get("key_sizes", ())),
         )
         self._add(base, row.get("aliases", []))
         for mode_name in row.get("modes", []):

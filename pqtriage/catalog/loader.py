@@ -143,6 +143,8 @@ ENTRY_ROW: Schema = {
     "source": (_STR, True),
     "identifiers": (_MAP, False),
     "modes": (_LIST, False),
+    "block_bits": (_INT, False),
+    "key_sizes": (_LIST, False),
 }
 COMPONENT_ROW: Schema = {"purpose": (_STR, True), "ref": (_STR, True)}
 NAME_ROW: Schema = {
@@ -156,6 +158,7 @@ NAME_ROW: Schema = {
     "status_at_best": (_STR, False),
     "notes": (_STR, False),
     "needs": (_STR, False),
+    "hash": (_STR, False),
     "source": (_STR, True),
 }
 KX_TOKEN: Schema = {

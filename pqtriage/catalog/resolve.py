@@ -13,6 +13,7 @@ name (:mod:`pqtriage.catalog.by_identifier`).
 
 from __future__ import annotations
 
+import datetime as dt
 import difflib
 import re
 from collections.abc import Iterable
@@ -20,11 +21,14 @@ from dataclasses import dataclass, replace
 from typing import Any
 
 from pqtriage.catalog.build import SpecBuilder
+from pqtriage.catalog.conflicts import CatalogFacts, find_conflicts
 from pqtriage.catalog.identifiers import Identifiers, Translation
 from pqtriage.catalog.loader import RawCatalog, Row
 from pqtriage.catalog.spec import AlgorithmSpec, Resolution
 from pqtriage.catalog.strength import join_notes
 from pqtriage.catalog.suites import SuiteParser
+from pqtriage.catalog.transitions import Standing, Transitions, read_transitions
+from pqtriage.catalog.trust import TrustDefault, TrustDefaults, read_trust_defaults
 from pqtriage.errors import CatalogError, Place
 
 MAX_KEY_BITS = 65536
@@ -71,7 +75,17 @@ class _Target:
 class Catalog:
     """The algorithm catalog: resolves names, lists specs and spellings."""
 
-    def __init__(self, raw: RawCatalog, identifiers: Identifiers | None = None) -> None:
+    def __init__(
+        self,
+        raw: RawCatalog,
+        identifiers: Identifiers | None = None,
+        transitions: Transitions | None = None,
+        trust: TrustDefaults | None = None,
+    ) -> None:
+        self.transitions = transitions or read_transitions()
+        """Classical status rules by date (NIST SP 800-131A Rev. 2, draft Rev. 3 ...)."""
+        self.trust = trust or read_trust_defaults()
+        """Default trust periods of signatures by role."""
         self._builder = SpecBuilder(raw)
         self._path = raw.path
         self._exact: dict[str, _Target] = {}
@@ -86,6 +100,12 @@ class Catalog:
             attach_oids(self._builder, identifiers)
         self._index(raw)
         self._suites = SuiteParser(raw.suite_tokens, self, raw.path)
+        self._facts = CatalogFacts(
+            curve=lambda name: self._curves.get(loose_key(name)),
+            group_bits=self._group_bits,
+            parameters=self._parameters,
+            loose=loose_key,
+        )
         if identifiers is not None:
             from pqtriage.catalog.by_identifier import check_targets
 
@@ -148,21 +168,38 @@ class Catalog:
                 None, reason=f"key size {key_size!r} is not a plausible number of bits"
             )
         target = self._target(text)
+        found: Resolution | None
         if target is not None:
-            return self._resolve_target(target, text, key_size, curve, parameter_set, use_purpose)
-        loose = loose_key(text)
-        found = self._with_size(loose, key_size, curve, use_purpose)
-        found = found or self._with_curve(loose, use_purpose)
-        found = found or self._keyed(loose, parameter_set or (str(key_size) if key_size else None))
-        found = found or self._suites.resolve(text, key_size=key_size, curve=curve)
-        if found is not None:
-            return found
-        translation = self.identifiers.translate(text) if self.identifiers is not None else None
-        if translation is not None:
-            return self._translated(text, translation, key_size, curve, parameter_set, use_purpose)
-        return Resolution(
-            None, reason=f"'{text}' is not in the algorithm catalog", suggestions=self.suggest(text)
-        )
+            found = self._resolve_target(target, text, key_size, curve, parameter_set, use_purpose)
+        else:
+            loose = loose_key(text)
+            found = self._with_size(loose, key_size, curve, use_purpose)
+            found = found or self._with_curve(loose, use_purpose)
+            found = found or self._keyed(loose, parameter_set or (str(key_size) if key_size else None))
+            found = found or self._suites.resolve(text, key_size=key_size, curve=curve)
+        if found is None:
+            translation = self.identifiers.translate(text) if self.identifiers is not None else None
+            if translation is not None:
+                return self._translated(text, translation, key_size, curve, parameter_set, use_purpose)
+            return Resolution(
+                None, reason=f"'{text}' is not in the algorithm catalog", suggestions=self.suggest(text)
+            )
+        checked = self._check_conflicts(found, text, key_size, curve, parameter_set)
+        if checked.conflicts and target is not None:
+            # OpenSSL's AES128-CCM is also the cipher's own name: sizes for the public-key parts
+            # mean the suite, which then takes them without conflict.
+            suite = self._suites.resolve(text, key_size=key_size, curve=curve)
+            if suite is not None and suite.spec is not None:
+                return suite
+        return checked
+
+    def classical_standing(self, spec: AlgorithmSpec, purpose: str, as_of: dt.date) -> Standing:
+        """The classical status of ``spec`` for ``purpose`` on ``as_of`` (see catalog/transitions.py)."""
+        return self.transitions.standing(spec, purpose, as_of)
+
+    def trust_default(self, role: str | None) -> TrustDefault:
+        """The cautious default trust period of a signature role (None: role not known)."""
+        return self.trust.for_role(role)
 
     def _translated(self, text: str, translation: Translation, key_size: int | None,
                     curve: str | None, parameter_set: str | None, purpose: str | None) -> Resolution:
@@ -208,6 +245,56 @@ class Catalog:
     def spellings(self) -> tuple[str, ...]:
         """Every known spelling (names, aliases, family names, curve names), sorted."""
         return tuple(sorted(set(self._display.values()), key=str.casefold))
+
+    # -- conflicting facts ----------------------------------------------------------------
+    def _check_conflicts(
+        self,
+        found: Resolution,
+        text: str,
+        key_size: int | None,
+        curve: str | None,
+        parameter_set: str | None,
+    ) -> Resolution:
+        """The resolution, or an unassessed one naming both values when the attributes disagree."""
+        spec = found.spec
+        if spec is None or (key_size is None and curve is None and parameter_set is None):
+            return found
+        conflicts = find_conflicts(
+            text, spec, key_size=key_size, curve=curve, parameter_set=parameter_set, facts=self._facts
+        )
+        if not conflicts:
+            return found
+        clauses = "; ".join(conflict.describe(spec.name) for conflict in conflicts)
+        return Resolution(
+            None,
+            reason=f"conflicting facts: {clauses}; correct the one that is wrong",
+            family=spec.family,
+            quantum_attack=spec.quantum_attack,
+            conflicts=conflicts,
+        )
+
+    def _group_bits(self, name: str) -> int | None:
+        target = self._target(name)
+        if target is not None and target.spec is not None and target.spec.family == "FFDH":
+            return target.spec.problem_bits
+        return None
+
+    def _parameters(self, text: str) -> set[str]:
+        """Parameter-set tokens a written name fixes for a keyed family: 'ML-KEM-768' -> {'768'}."""
+        loose = loose_key(text)
+        found: set[str] = set()
+        for prefix, target in self._loose.items():
+            if target is None or target.kind != "keyed" or target.row is None:
+                continue
+            if not loose.startswith(prefix) or prefix == loose:
+                continue
+            rest = loose[len(prefix) :]
+            for size in target.row["sizes"]:
+                token = loose_key(str(size))
+                after = rest[len(token) :]
+                if rest.startswith(token) and not (after[:1].isdigit()):
+                    found.add(str(size))
+        return found
 
     # -- part lookups used by the cipher suite parser --------------------------------------
     def fixed(self, name: str) -> AlgorithmSpec:

@@ -64,6 +64,14 @@ class AlgorithmSpec:
     """Hashes only: NIST category against preimage search (NIST IR 8547 ipd, Table 7)."""
     identifiers: dict[str, str] = field(default_factory=dict, compare=False, hash=False)
     """Protocol and format identifiers: X.509 OID, TLS code point, SSH name ..."""
+    curve: str | None = None
+    """Elliptic-curve schemes: the catalog name of the curve the name fixes (P-256, Curve25519)."""
+    block_bits: int | None = None
+    """Block ciphers: the block size in bits (64 for TDEA, Blowfish, IDEA; 128 for AES)."""
+    signature_hash: str | None = None
+    """Signature schemes whose name fixes the hash (ssh-rsa, sha1WithRSAEncryption: SHA-1)."""
+    key_sizes: tuple[int, ...] = ()
+    """Other spellings of the key size the name fixes (3TDEA: 168 or 192 with parity bits)."""
 
     def replacement_for(self, purpose: str) -> str | None:
         """Return the standardized replacement for a purpose, or None if none is needed."""
@@ -81,6 +89,24 @@ class Component:
 
 
 @dataclass(frozen=True)
+class Conflict:
+    """A name and an explicit attribute of the same use that disagree."""
+
+    attribute: str
+    """The attribute: key_size, curve or parameter_set."""
+    named: str | None
+    """What the name fixes for it, as text; None when the attribute does not apply to it."""
+    given: str
+    """The value the use gives, as written."""
+
+    def describe(self, name: str) -> str:
+        """One clause naming both values, for the unassessed reason (``name``: what the catalog read)."""
+        if self.named is None:
+            return f"{name} takes no {self.attribute}, but the use gives {self.attribute}: {self.given}"
+        return f"{name} has {self.attribute} {self.named}, but the use gives {self.attribute}: {self.given}"
+
+
+@dataclass(frozen=True)
 class Resolution:
     """Result of looking a use's algorithm up in the catalog."""
 
@@ -94,6 +120,8 @@ class Resolution:
     """Family recognised even when unassessed (RSA without a key size), else None."""
     quantum_attack: QuantumAttack | None = None
     """Quantum attack class known even when unassessed (RSA of any size falls to Shor)."""
+    conflicts: tuple[Conflict, ...] = ()
+    """Disagreements between the name and the use's attributes (then spec is None)."""
 
     @property
     def assessed(self) -> bool:

@@ -48,13 +48,37 @@ class ResultFormatChoice(str, Enum):
 
 
 class VerdictChoice(str, Enum):
-    """--fail-on values, from most to least urgent."""
+    """The verdict words, from most to least urgent (--fail-on also takes short forms)."""
 
     classically_broken = "classically-broken"
     exposed = "exposed"
     unassessed = "unassessed"
     within_margin = "within-margin"
     quantum_resistant = "quantum-resistant"
+
+
+FAIL_ON_SHORT = {"broken": "classically-broken", "margin": "within-margin", "within": "within-margin",
+                 "resistant": "quantum-resistant", "unknown": "unassessed"}
+"""Short forms --fail-on accepts, beside the verdict words (the same table as parse_verdict)."""
+FAIL_ON_HELP = ("Exit 1 if any system is at or above this verdict: classically-broken, exposed, unassessed, "
+                "within-margin or quantum-resistant (short forms: broken, margin, resistant).")
+FAIL_ON_NAMED = 10
+"""Systems named on stderr when --fail-on triggers; the rest are counted."""
+
+
+def check_fail_on(value: Optional[str]) -> Optional[str]:
+    """Typer callback: the verdict word of a --fail-on value, or a usage error naming the words."""
+    if value is None:
+        return None
+    from pqtriage.model.verdict import parse_verdict
+
+    verdict = parse_verdict(value)
+    if verdict is None:
+        words = ", ".join(choice.value for choice in VerdictChoice)
+        raise typer.BadParameter(
+            f"{value!r} is not a verdict; use one of {words} (or broken, margin, resistant)"
+        )
+    return verdict.value
 
 
 class DiscoveryFormat(str, Enum):
@@ -224,15 +248,29 @@ def profile_input(profile: Optional[str]) -> Optional[str]:
     return profile if Path(profile).exists() else None
 
 
-def fail_code(result: Any, fail_on: Optional[VerdictChoice]) -> int:
-    """Exit code for --fail-on: 1 if any system's verdict is at or above it, else 0."""
+def fail_code(result: Any, fail_on: Optional[str]) -> int:
+    """Exit code for --fail-on: 1 if any system's verdict is at or above it, else 0.
+
+    When it triggers, stderr names the systems that did (the first FAIL_ON_NAMED in rank order,
+    then how many more), so a CI log says what to fix.
+    """
     if fail_on is None:
         return EXIT_OK
-    from pqtriage.model.verdict import SEVERITY, Verdict
+    from pqtriage.formats.text import visible
+    from pqtriage.model.verdict import SEVERITY, parse_verdict
 
-    threshold = SEVERITY[Verdict(fail_on.value)]
-    worst = max((SEVERITY[i.verdict] for i in result.items), default=-1)
-    return EXIT_FINDINGS if worst >= threshold else EXIT_OK
+    verdict = parse_verdict(str(getattr(fail_on, "value", fail_on)))
+    if verdict is None:  # pragma: no cover - the option's callback refuses it first
+        raise UsageError(f"--fail-on {fail_on!r} is not a verdict")
+    threshold = SEVERITY[verdict]
+    hits = [item for item in result.items if SEVERITY[item.verdict] >= threshold]
+    if not hits:
+        return EXIT_OK
+    named = ", ".join(f"{visible(item.system.id)} ({item.verdict.value})" for item in hits[:FAIL_ON_NAMED])
+    more = f" and {len(hits) - FAIL_ON_NAMED} more" if len(hits) > FAIL_ON_NAMED else ""
+    sys.stderr.write(f"--fail-on {verdict.value}: {len(hits)} of {len(result.items)} systems at or above it: "
+                     f"{named}{more}\n")
+    return EXIT_FINDINGS
 
 
 def chart_path_for(output: str) -> str:

@@ -5,18 +5,31 @@ Plain strings only (no rich), so text formats can use them without loading the t
 
 from __future__ import annotations
 
+from collections.abc import Sequence
+
 from pqtriage.model.diff import Diff
 from pqtriage.model.sensitivity import Sensitivity
-from pqtriage.model.verdict import Verdict
+from pqtriage.model.verdict import Flag, SystemAssessment, Verdict
 
-VERDICT_LABEL: dict[Verdict, str] = {
-    Verdict.CLASSICALLY_BROKEN: "broken now",
-    Verdict.EXPOSED: "exposed",
-    Verdict.UNASSESSED: "unassessed",
-    Verdict.WITHIN_MARGIN: "in margin",
-    Verdict.QUANTUM_RESISTANT: "resistant",
-}
-"""Short labels for narrow terminals; the legend spells each out."""
+VERDICT_LABEL: dict[Verdict, str] = {verdict: verdict.value for verdict in Verdict}
+"""The verdict words: the same in every output, option and document (``--fail-on`` takes them)."""
+
+
+def flag_short(flag: Flag) -> str:
+    """A flag for narrow places: 'legacy Blowfish', 'downgrade DH-2048'."""
+    return f"{flag.kind} {flag.algorithm}"
+
+
+def flags_text(flags: Sequence[Flag]) -> str:
+    """Every flag in full (kind, date, document, algorithm), joined with '; '."""
+    return "; ".join(dict.fromkeys(flag.text for flag in flags))
+
+
+def system_replacement(item: SystemAssessment) -> str | None:
+    """What to replace first: the deciding use's replacement, else that of the first flagged use."""
+    if item.weakest is not None and item.weakest.replacement:
+        return item.weakest.replacement
+    return next((use.replacement for use in item.uses if use.flags and use.replacement), None)
 
 
 def short_replacement(text: str | None) -> str:

@@ -8,6 +8,8 @@ from __future__ import annotations
 
 import math
 
+from pqtriage.catalog.transitions import Standing
+from pqtriage.model.inventory import Fact
 from pqtriage.model.verdict import TriageResult
 
 CAUTIONS: tuple[str, ...] = (
@@ -26,7 +28,8 @@ SOURCES: tuple[str, ...] = (
     "IEEE Security & Privacy 16(5), 2018; IACR ePrint 2015/1075.",
     "Classical security strengths: NIST SP 800-57 Part 1 Rev. 5 (2020), Table 2.",
     "Hash strengths: NIST SP 800-107 Rev. 1 (2012).",
-    "Transitions: NIST SP 800-131A Rev. 2 (2019).",
+    "Transitions: NIST SP 800-131A Rev. 2 (2019); DRAFT NIST SP 800-131A Rev. 3 initial public draft "
+    "(October 2024) for its later dates; FIPS 186-5 (2023) for DSA; RFC 6151 (2011) for MD5.",
     "Post-quantum standards: FIPS 203 (ML-KEM), FIPS 204 (ML-DSA), FIPS 205 (SLH-DSA), 2024; "
     "NIST SP 800-208 (LMS, XMSS), 2020.",
     "Security categories and deprecation: NIST IR 8547 ipd (2024), Tables 1, 2, 4 and 7.",
@@ -39,6 +42,19 @@ SOURCES: tuple[str, ...] = (
     "Grover costs: NIST PQC Call for Proposals (2016) section 4.A.5; NIST Call for Additional "
     "Digital Signature Schemes (2022) section 4.B.3.",
 )
+
+
+def classical_text(standing: Standing) -> str:
+    """'legacy since 2011-03-01 (RFC 6151)', with the next scheduled status when there is one."""
+    text = standing.label()
+    following = standing.next_label()
+    return f"{text}; next: {following}" if following else text
+
+
+def fact_text(fact: Fact) -> str:
+    """'key_size 2048 (inventory, demo.yaml:25:9)'."""
+    where = f", {fact.source}" if fact.source is not None else ""
+    return f"{fact.name} {fact.value} ({fact.origin}{where})"
 
 
 def fmt_year(year: float | None) -> str:
@@ -83,10 +99,19 @@ def assumptions(result: TriageResult) -> list[str]:
         items.append(f"Uncertainty: {result.band.describe()}")
     items.append(
         "Mosca's x by purpose: data shelf-life for key establishment and encryption "
-        "(harvest now, decrypt later); trust_years for signatures and integrity (0 when not given); "
-        "0 for live authentication. y is the system's migration time."
+        "(harvest now, decrypt later); trust_years for signatures and integrity, or when not given the "
+        "cautious default of the signature's role (signature_role; see docs/method.md), stated with each use "
+        "that takes it; 0 for live authentication. y is the system's migration time."
     )
-    items.append("A system's verdict is that of its weakest use.")
+    items.append(
+        "A system's verdict is that of its weakest use in use; an offered use that is classically broken makes "
+        "it classically-broken (old clients will negotiate it); weaker offered uses are downgrade flags."
+    )
+    items.append(
+        "Classical status on the as-of date from NIST SP 800-131A Rev. 2 (2019), and the DRAFT Rev. 3 "
+        "(October 2024) for its later dates: disallowed or broken means classically-broken; legacy and "
+        "deprecated are flags. A use whose name and attributes disagree is unassessed."
+    )
     assumed = sorted({f for item in result.items for f in item.system.assumed})
     if assumed:
         items.append(

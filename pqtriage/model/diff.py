@@ -1,7 +1,7 @@
 """Compare two reviews: which systems migrated, improved, worsened, appeared or went away.
 
 Pure: takes two TriageResults, or two JSON results as ``--format json`` writes them
-(schema_version 1), and returns a :class:`Diff`. Systems are matched by id.
+(schema_version 1 or 2), and returns a :class:`Diff`. Systems are matched by id.
 
 - migrated: the system was not quantum-resistant and now is;
 - improved: its verdict is less urgent (SEVERITY), but not yet quantum-resistant;
@@ -102,9 +102,9 @@ def review_of_result(result: TriageResult, label: str) -> Review:
 
 
 def review_of_json(data: dict[str, Any], label: str) -> Review:
-    """A Review from a JSON result (``--format json``, schema_version 1); ValueError if it is not one."""
-    if not isinstance(data, dict) or data.get("schema_version") != 1 or not isinstance(data.get("items"), list):
-        raise ValueError("not a pqtriage JSON result (schema_version 1 with items)")
+    """A Review from a JSON result (``--format json``, schema_version 1 or 2); ValueError if it is not one."""
+    if not isinstance(data, dict) or data.get("schema_version") not in (1, 2) or not isinstance(data.get("items"), list):
+        raise ValueError("not a pqtriage JSON result (schema_version 1 or 2 with items)")
     systems = []
     for index, item in enumerate(data["items"], start=1):
         if not isinstance(item, dict) or not isinstance(item.get("id"), str):

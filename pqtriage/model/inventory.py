@@ -79,7 +79,7 @@ CRITICALITY_ORDER = {
 """Ranking weight: lower is more critical."""
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class SourceRef:
     """Where an item came from, so every finding can be traced back."""
 
@@ -109,6 +109,45 @@ OFFERED = "offered"
 """Role of a use a server offers that a current client does not negotiate (older clients may)."""
 USE_ROLES = (IN_USE, OFFERED)
 """Accepted values of :attr:`CryptoUse.role`."""
+
+FACT_ORIGINS: tuple[str, ...] = ("inventory", "file", "handshake", "cbom", "default")
+"""Where a fact came from: written in the input (``inventory``), read from a scanned file
+(``file``: certificate, key), seen in a live handshake (``handshake``), imported from a CBOM
+(``cbom``), or a documented default (``default``)."""
+
+
+class SignatureRole(str, Enum):
+    """What a signature protects; decides the cautious default x when ``trust_years`` is absent.
+
+    The years per role are shipped data (``pqtriage/data/trust_defaults.yaml``).
+    """
+
+    ROOT_OF_TRUST = "root-of-trust"
+    CERTIFICATE_AUTHORITY = "certificate-authority"
+    FIRMWARE_SIGNING = "firmware-signing"
+    CODE_SIGNING = "code-signing"
+    DOCUMENT_SIGNING = "document-signing"
+    LIVE_AUTHENTICATION = "live-authentication"
+    SHORT_LIVED = "short-lived"
+
+
+@dataclass(frozen=True, slots=True)
+class Fact:
+    """One fact an assessment rests on, and where it came from."""
+
+    name: str
+    """What the fact states: algorithm, key_size, curve, parameter_set, purpose, trust_years, role,
+    signature_role, shelf_life_years, migration_years, or a source's own (signature_hash ...)."""
+    value: str
+    """The value as text, as it was read."""
+    origin: str
+    """One of FACT_ORIGINS: inventory, file, handshake, cbom or default."""
+    source: SourceRef | None = None
+    """Where exactly: inventory line, scanned file, host:port of the handshake, CBOM bom-ref."""
+
+    def __post_init__(self) -> None:
+        if self.origin not in FACT_ORIGINS:
+            raise ValueError(f"fact origin {self.origin!r} is not one of {', '.join(FACT_ORIGINS)}")
 
 
 @dataclass(frozen=True)
@@ -175,11 +214,21 @@ class CryptoUse:
     """Names of fields whose values are documented defaults, not facts from the input."""
     role: str = IN_USE
     """``in-use`` (what runs) or ``offered`` (offered by a server, not what a current client
-    negotiates: older or differently configured clients may still use it)."""
+    negotiates: older or differently configured clients may still use it). The system's quantum
+    verdict rests on in-use uses."""
     not_before: dt.date | None = None
     """Start of validity of the certificate this use rests on, when it comes from one."""
     not_after: dt.date | None = None
     """End of validity of the certificate this use rests on, when it comes from one."""
+    signature_role: SignatureRole | None = None
+    """What a signature protects (root of trust, CA, firmware ...): sets x when trust_years is absent."""
+    evidence: tuple[Fact, ...] = ()
+    """Facts a source recorded for this use, each with where it came from (certificate, handshake,
+    CBOM ref); fields without one are facts of the input line (``use.source``)."""
+
+    def __post_init__(self) -> None:
+        if self.role not in USE_ROLES:
+            raise ValueError(f"use role {self.role!r} is not one of {', '.join(USE_ROLES)}")
     oid: str | None = None
     """Object identifier the input gives for the algorithm (a CBOM's cryptoProperties.oid):
     the catalog resolves it first, and a name that contradicts it makes the use unassessed."""

@@ -25,8 +25,10 @@ from __future__ import annotations
 import bisect
 import datetime as dt
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from functools import cached_property
+
+from pqtriage.model.priority import PriorityWeights
 
 PLANNING_HORIZON_YEARS = 100.0
 """The cautious tail puts all remaining probability within this many years of the survey."""
@@ -158,6 +160,8 @@ class ThreatProfile:
     tail_end_years: float | None = None
     """Years after the reference date at which the tail reaches 1 (None: the last interval's
     rate decides)."""
+    priority: PriorityWeights = field(default_factory=PriorityWeights)
+    """Points that order systems of the same verdict (docs/method.md, "Ranking")."""
 
     @property
     def deterministic(self) -> bool:

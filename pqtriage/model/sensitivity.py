@@ -10,8 +10,8 @@ from pqtriage.model.arrival_model import ArrivalModel
 from pqtriage.model.inventory import Inventory
 from pqtriage.model.mosca import use_verdict
 from pqtriage.model.profile import ThreatProfile
-from pqtriage.model.triage import Resolver
-from pqtriage.model.verdict import SEVERITY, TriageResult, UseAssessment, Verdict
+from pqtriage.model.triage import Resolver, system_verdict
+from pqtriage.model.verdict import TriageResult, UseAssessment, Verdict
 
 DEFAULT_SHIFTS: tuple[int, ...] = (-5, -3, -1, 1, 3, 5)
 """Years earlier (negative) or later (positive) the CRQC is assumed to arrive."""
@@ -85,7 +85,8 @@ def _verdict_at(use: UseAssessment, probability: float, tolerance: float) -> Ver
 def band_flips(result: TriageResult) -> tuple[BandFlip, ...]:
     """Systems whose verdict at either end of their uses' P bands differs from the central one.
 
-    A system's verdict is its weakest use's, at each end alike: all uses at their optimistic
+    A system's verdict follows triage's rule (its weakest in-use use; an offered classically-broken
+    use breaks it), at each end alike: all uses at their optimistic
     end, or all at their pessimistic end (the band's samples move every algorithm together).
     """
     tolerance = result.profile.risk_tolerance
@@ -100,7 +101,7 @@ def band_flips(result: TriageResult) -> tuple[BandFlip, ...]:
                             if u.band is not None else 0.0, tolerance)
                 for u in item.uses
             ]
-            ends.append(max(verdicts, key=lambda v: SEVERITY[v]))
+            ends.append(system_verdict([(u.use.role, v) for u, v in zip(item.uses, verdicts, strict=True)]))
         if ends[0] != item.verdict or ends[1] != item.verdict:
             flips.append(BandFlip(item.system.id, item.verdict, ends[0], ends[1]))
     return tuple(flips)
@@ -117,8 +118,9 @@ def sensitivity(
 ) -> Sensitivity:
     """Re-evaluate every use with the arrival moved by each shift and collect verdict changes.
 
-    Uses the baseline's catalog resolutions; only verdicts are recomputed (same rules as
-    triage: a system's verdict is its weakest use's).
+    Uses the baseline's catalog resolutions and classical statuses; only verdicts are
+    recomputed (same rules as triage: the weakest in-use use decides, an offered
+    classically-broken use breaks the system).
     """
     del inventory, catalog  # the baseline already holds both, resolved
     runs: dict[int, dict[str, Verdict]] = {}
@@ -129,10 +131,9 @@ def sensitivity(
             if not item.uses:
                 verdicts[item.system.id] = Verdict.UNASSESSED
                 continue
-            verdicts[item.system.id] = max(
-                (use_verdict(u.use, item.system, u.spec, profile, moved, as_of) for u in item.uses),
-                key=lambda v: SEVERITY[v],
-            )
+            verdicts[item.system.id] = system_verdict([
+                (u.use.role, use_verdict(u, item.system, profile, moved, as_of)) for u in item.uses
+            ])
         runs[shift] = verdicts
     rows = []
     unchanged = 0

@@ -1,24 +1,34 @@
-"""Triage: evaluate every use, let each system's weakest use decide, rank the systems.
+"""Triage: evaluate every use, let each system's weakest in-use use decide, rank the systems.
 
 The orchestrator receives its catalog, profile and arrival model as arguments,
 so tests can hand it fakes. Pure: no file, console or network access.
+
+A system's verdict rests on its in-use uses (all of them when none is marked in use); an
+offered use that is classically broken makes the system classically-broken (old clients will
+negotiate it), and an offered use weaker than what is in use is a downgrade flag. Systems are
+ranked by verdict, then by priority points (pqtriage.model.priority).
 """
 
 from __future__ import annotations
 
 import datetime as dt
 import math
+from collections.abc import Sequence
 from dataclasses import replace
 from typing import Protocol
 
 from pqtriage.catalog.spec import AlgorithmSpec, Resolution
+from pqtriage.catalog.transitions import Standing
+from pqtriage.catalog.trust import TrustDefault
 from pqtriage.model.arrival_model import ArrivalModel
 from pqtriage.model.inventory import CRITICALITY_ORDER, EXPOSURE_ORDER, CryptoUse, Inventory, System
-from pqtriage.model.mosca import evaluate_use, evaluation_parts, x_years
+from pqtriage.model.mosca import evaluate_use, evaluation_parts
+from pqtriage.model.priority import PriorityWeights, priority_of, shown_margin, shown_percent
 from pqtriage.model.profile import ThreatProfile, decimal_year
 from pqtriage.model.verdict import (
     SEVERITY,
     ArrivalUsed,
+    Flag,
     Summary,
     SystemAssessment,
     TriageResult,
@@ -28,7 +38,15 @@ from pqtriage.model.verdict import (
 
 
 class Resolver(Protocol):
-    """What triage needs of the catalog."""
+    """What triage needs of the catalog: names, classical status by date, trust defaults."""
+
+    def classical_standing(self, spec: AlgorithmSpec, purpose: str, as_of: dt.date) -> Standing:
+        """Classical status of an algorithm for a purpose on a date."""
+        ...
+
+    def trust_default(self, role: str | None) -> TrustDefault:
+        """Default trust period of a signature role (None: not known)."""
+        ...
 
     def resolve(
         self,
@@ -100,7 +118,7 @@ def _with_band(item: UseAssessment, system: System, band: BandSource, now: float
         return item
     x = item.x_years
     if item.deciding is not None:
-        base, _ = x_years(item.use, system)
+        base = item.x_years  # a suite's own x; its parts take theirs from the purpose
         x = next((part_x for part, _, part_x in evaluation_parts(item.use, system, item.spec, base)
                   if part is item.deciding), x)
     key = (id(spec), x, item.y_years, item.exposure_probability, item.crqc_year)
@@ -123,26 +141,98 @@ def use_sort_key(item: UseAssessment) -> tuple:
     return (-SEVERITY[item.verdict], -(item.exposure_probability or 0.0), margin)
 
 
-def _assess_system(system: System, uses: tuple[UseAssessment, ...]) -> SystemAssessment:
+def _shown_key(item: UseAssessment) -> tuple:
+    """use_sort_key on the values as displayed (whole percent, margin to one decimal)."""
+    margin = shown_margin(item.margin_years)
+    return (-SEVERITY[item.verdict], -(shown_percent(item.exposure_probability) or 0),
+            margin if margin is not None else math.inf)
+
+
+def deciding_pool(uses: Sequence[UseAssessment]) -> list[UseAssessment]:
+    """The uses a system's quantum verdict rests on: the in-use ones, or all when none is in use."""
+    in_use = [u for u in uses if not u.offered]
+    return in_use or list(uses)
+
+
+def system_verdict(uses: Sequence[tuple[str, Verdict]]) -> Verdict:
+    """A system's verdict from (role, verdict) of its uses: the worst in-use verdict (all uses when
+    none is in use), classically-broken when any offered use is. Unassessed for no use."""
+    if not uses:
+        return Verdict.UNASSESSED
+    in_use = [v for role, v in uses if role != "offered"] or [v for _, v in uses]
+    worst = max(in_use, key=lambda v: SEVERITY[v])
+    if any(role == "offered" and v is Verdict.CLASSICALLY_BROKEN for role, v in uses):
+        return Verdict.CLASSICALLY_BROKEN
+    return worst
+
+
+def _algorithm(use: UseAssessment) -> str:
+    spec = use.deciding or use.spec
+    return spec.name if spec else use.use.algorithm
+
+
+def _downgrades(uses: tuple[UseAssessment, ...]) -> tuple[UseAssessment, ...]:
+    """Uses with a downgrade flag added to every offered use weaker than what is in use."""
+    in_use = [u for u in uses if not u.offered]
+    if not in_use:
+        return uses
+    marked = []
+    for use in uses:
+        if not use.offered:
+            marked.append(use)
+            continue
+        same = [u for u in in_use if u.use.purpose is use.use.purpose] or in_use
+        reference = min(same, key=_shown_key)  # the weakest in-use use of that purpose
+        if _shown_key(use) < _shown_key(reference):
+            shown = "" if use.exposure_probability is None else f", P {shown_percent(use.exposure_probability)}%"
+            text = (f"downgrade: {_algorithm(use)} is offered for {use.use.purpose.value} ({use.verdict.value}{shown}) "
+                    f"beside {_algorithm(reference)} in use ({reference.verdict.value})")
+            flag = Flag(kind="downgrade", algorithm=_algorithm(use), text=text)
+            use = replace(use, flags=use.flags + (flag,))
+        marked.append(use)
+    return tuple(marked)
+
+
+def _assess_system(system: System, uses: tuple[UseAssessment, ...], weights: PriorityWeights) -> SystemAssessment:
     if not uses:
         return SystemAssessment(
             system=system, uses=(), verdict=Verdict.UNASSESSED, weakest=None,
             exposure_probability=None, margin_years=None, start_by=None, rank=0,
             reason="no cryptographic use listed: add its uses to assess it",
+            priority=priority_of(weights, None, None, system.criticality.value, system.exposure.value),
         )
-    weakest = min(uses, key=use_sort_key)
+    uses = _downgrades(uses)
+    pool = deciding_pool(uses)
+    weakest = min(pool, key=use_sort_key)
+    reason = weakest.reason
+    if len(pool) < len(uses) and weakest.verdict is not Verdict.CLASSICALLY_BROKEN:
+        broken = [u for u in uses if u.offered and u.verdict is Verdict.CLASSICALLY_BROKEN]
+        if broken:
+            weakest = min(broken, key=use_sort_key)
+            reason = (f"offered {_algorithm(weakest)} is classically-broken and old clients will negotiate it: "
+                      f"{weakest.reason}")
+    elif len(pool) == len(uses) and any(u.offered for u in uses):
+        reason = f"no use is marked in use, so the offered ones decide: {reason}"
+    flags = tuple(flag for use in uses for flag in use.flags)
     if weakest.verdict is Verdict.UNASSESSED:
         # Nothing computed from the other uses stands for the system: its weakest link is unknown.
         return SystemAssessment(
             system=system, uses=uses, verdict=Verdict.UNASSESSED, weakest=weakest,
             exposure_probability=None, margin_years=None, start_by=None, rank=0,
             reason=f"{unassessed_label(weakest)}: {weakest.reason}",
+            priority=priority_of(weights, None, None, system.criticality.value, system.exposure.value),
+            flags=flags,
         )
-    dates = [u.start_by for u in uses if u.start_by is not None]
+    dates = [u.start_by for u in pool if u.start_by is not None]
+    if weakest.offered and weakest.start_by is not None:
+        dates.append(weakest.start_by)
     return SystemAssessment(
         system=system, uses=uses, verdict=weakest.verdict, weakest=weakest,
         exposure_probability=weakest.exposure_probability, margin_years=weakest.margin_years,
-        start_by=min(dates) if dates else None, rank=0, reason=weakest.reason,
+        start_by=min(dates) if dates else None, rank=0, reason=reason,
+        priority=priority_of(weights, weakest.exposure_probability, weakest.margin_years,
+                             system.criticality.value, system.exposure.value),
+        flags=flags,
     )
 
 
@@ -158,39 +248,61 @@ def unassessed_label(item: UseAssessment) -> str:
 
 
 def rank_key(item: SystemAssessment) -> tuple:
-    """The ranking: classical breakage first, then exposure probability, then margin,
-    then criticality and exposure to interception; the id breaks remaining ties
-    so the order is total and deterministic."""
-    margin = item.margin_years if item.margin_years is not None else math.inf
+    """The ranking: verdict first (classical breakage first), then more priority points, then the
+    probability and margin as displayed, criticality and exposure to interception; the id breaks
+    remaining ties so the order is total and deterministic."""
+    priority = item.priority
+    points = priority.points if priority is not None else 0.0
+    percent = shown_percent(item.exposure_probability)
+    margin = shown_margin(item.margin_years)
     return (
         -SEVERITY[item.verdict],
-        -(item.exposure_probability or 0.0),
-        margin,
+        -points,
+        -(percent if percent is not None else -1),
+        margin if margin is not None else math.inf,
         CRITICALITY_ORDER[item.system.criticality],
         EXPOSURE_ORDER[item.system.exposure],
         item.system.id,
     )
 
 
-def _place_reason(item: SystemAssessment, previous: SystemAssessment | None) -> str:
-    """Why this row sits where it does, in one line."""
-    if previous is None or previous.verdict != item.verdict:
-        lead = {
-            Verdict.CLASSICALLY_BROKEN: "broken today",
-            Verdict.EXPOSED: "exposed",
-            Verdict.UNASSESSED: "unassessed",
-            Verdict.WITHIN_MARGIN: "within margin",
-            Verdict.QUANTUM_RESISTANT: "quantum-resistant",
-        }[item.verdict]
-    elif (previous.exposure_probability or 0.0) != (item.exposure_probability or 0.0):
-        lead = "lower exposure probability"
-    elif previous.margin_years != item.margin_years:
-        lead = "more margin"
-    elif previous.system.criticality != item.system.criticality:
-        lead = f"{item.system.criticality.value} criticality"
-    else:
-        lead = f"{item.system.exposure.value} exposure"
-    return f"{lead}: {item.reason}"
+_FACTOR_WORDS = {
+    "probability": "exposure probability",
+    "time": "time left",
+    "criticality": "criticality",
+    "interception": "exposure to interception",
+}
+
+
+def place_reason(item: SystemAssessment, previous: SystemAssessment | None) -> str:
+    """The factor that put ``item`` right below ``previous`` (the row above), in one line."""
+    if previous is None:
+        return f"first: the most urgent verdict ({item.verdict.value}) with the most priority points"
+    if previous.verdict is not item.verdict:
+        return f"first {item.verdict.value} system: {item.verdict.value} ranks below {previous.verdict.value}"
+    mine, theirs = item.priority, previous.priority
+    assert mine is not None and theirs is not None
+    if mine.points != theirs.points:
+        gaps = [(theirs.part(p.factor).points - p.points, p.factor) for p in mine.parts]
+        gap, factor = max(gaps, key=lambda g: g[0])
+        return (f"{mine.points:g} priority points against {theirs.points:g} for {previous.system.id}, "
+                f"mostly {_FACTOR_WORDS[factor]} ({mine.part(factor).shown} against "
+                f"{theirs.part(factor).shown}, {gap:g} points)")
+    same = f"same priority points as {previous.system.id} ({mine.points:g}); "
+    if mine.probability_shown != theirs.probability_shown:
+        return same + (f"lower exposure probability shown ({mine.probability_shown}% against "
+                       f"{theirs.probability_shown}%)")
+    if mine.margin_shown != theirs.margin_shown:
+        ours = "none" if mine.margin_shown is None else f"{mine.margin_shown:+.1f}"
+        other = "none" if theirs.margin_shown is None else f"{theirs.margin_shown:+.1f}"
+        return same + f"more margin shown ({ours} years against {other})"
+    if item.system.criticality is not previous.system.criticality:
+        return same + (f"lower criticality ({item.system.criticality.value} against "
+                       f"{previous.system.criticality.value})")
+    if item.system.exposure is not previous.system.exposure:
+        return same + (f"less exposed to interception ({item.system.exposure.value} against "
+                       f"{previous.system.exposure.value})")
+    return same + f"every factor equal: ordered by id ({item.system.id} after {previous.system.id})"
 
 
 def summarize(items: tuple[SystemAssessment, ...], as_of: dt.date) -> Summary:
@@ -239,7 +351,7 @@ def triage(
     memo: dict[tuple[object, ...], object] = {}  # specs stay alive in the catalog cache
     for system in inventory.systems:
         uses = tuple(
-            evaluate_use(use, system, _resolve(catalog, use, cache), profile, remembered, as_of)
+            evaluate_use(use, system, _resolve(catalog, use, cache), profile, remembered, as_of, catalog)
             for use in system.uses
         )
         if band is not None:
@@ -258,17 +370,12 @@ def triage(
                     basis = "falls with the reference task (shared arrival)"
                 arrivals[spec.name] = ArrivalUsed(spec.name, use.crqc_year, use.shift_years
                                                   if use.shift_years is not None else math.inf, basis)
-        assessed.append(_assess_system(system, uses))
+        assessed.append(_assess_system(system, uses, profile.priority))
     ordered = sorted(assessed, key=rank_key)
     ranked: list[SystemAssessment] = []
     previous: SystemAssessment | None = None
     for index, item in enumerate(ordered, start=1):
-        new = SystemAssessment(
-            system=item.system, uses=item.uses, verdict=item.verdict, weakest=item.weakest,
-            exposure_probability=item.exposure_probability, margin_years=item.margin_years,
-            start_by=item.start_by, rank=index, reason=_place_reason(item, previous),
-        )
-        ranked.append(new)
+        ranked.append(replace(item, rank=index, rank_reason=place_reason(item, previous)))
         previous = item
     items = tuple(ranked)
     return TriageResult(

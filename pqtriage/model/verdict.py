@@ -7,8 +7,10 @@ from dataclasses import dataclass
 from enum import Enum
 from typing import TYPE_CHECKING
 
-from pqtriage.catalog.spec import AlgorithmSpec
-from pqtriage.model.inventory import CryptoUse, Inventory, System
+from pqtriage.catalog.spec import AlgorithmSpec, Conflict
+from pqtriage.catalog.transitions import Standing
+from pqtriage.model.inventory import CryptoUse, Fact, Inventory, System
+from pqtriage.model.priority import Priority
 from pqtriage.model.profile import ThreatProfile
 
 if TYPE_CHECKING:
@@ -42,6 +44,44 @@ VERDICT_MEANING: dict[Verdict, str] = {
     Verdict.QUANTUM_RESISTANT: "no known quantum attack breaks it within the planning horizon",
 }
 """One-line meaning of each verdict, for legends, SARIF rules and reports."""
+
+VERDICT_ALIASES: dict[str, Verdict] = {
+    "classically-broken": Verdict.CLASSICALLY_BROKEN,
+    "broken": Verdict.CLASSICALLY_BROKEN,
+    "classical": Verdict.CLASSICALLY_BROKEN,
+    "exposed": Verdict.EXPOSED,
+    "unassessed": Verdict.UNASSESSED,
+    "unknown": Verdict.UNASSESSED,
+    "within-margin": Verdict.WITHIN_MARGIN,
+    "margin": Verdict.WITHIN_MARGIN,
+    "within": Verdict.WITHIN_MARGIN,
+    "in-margin": Verdict.WITHIN_MARGIN,
+    "quantum-resistant": Verdict.QUANTUM_RESISTANT,
+    "resistant": Verdict.QUANTUM_RESISTANT,
+}
+"""The verdict words and the short forms people type (``--fail-on broken``)."""
+
+
+def parse_verdict(text: str) -> Verdict | None:
+    """The verdict a word names (case, spaces and underscores ignored), or None."""
+    key = "-".join(text.strip().casefold().replace("_", "-").split())
+    return VERDICT_ALIASES.get(key)
+
+
+@dataclass(frozen=True)
+class Flag:
+    """A caution shown beside a verdict in every output: legacy, deprecated or a downgrade."""
+
+    kind: str
+    """legacy, deprecated (classical status by date) or downgrade (a weaker method offered)."""
+    algorithm: str
+    """Catalog name (or input name) of the algorithm it is about."""
+    text: str
+    """One line, with its date and document: 'legacy since 2011-03-01 (RFC 6151): HMAC-MD5'."""
+    date: dt.date | None = None
+    """When the status began, if dated."""
+    draft: bool = False
+    """True when the flag rests on a draft document (shown as DRAFT)."""
 
 
 @dataclass(frozen=True)
@@ -78,6 +118,20 @@ class UseAssessment:
     """Close catalog names, for an unknown algorithm."""
     assumptions: tuple[str, ...] = ()
     """Assumptions this evaluation made (default trust years, assumed shelf-life ...)."""
+    classical: Standing | None = None
+    """Classical status by date of the algorithm for this purpose (the worst part of a suite);
+    None when unassessed."""
+    conflicts: tuple[Conflict, ...] = ()
+    """Name and attributes that disagree (the use is then unassessed)."""
+    facts: tuple[Fact, ...] = ()
+    """The facts the assessment rests on, each with where it came from."""
+    flags: tuple[Flag, ...] = ()
+    """Cautions beside the verdict: legacy or deprecated status, or a downgrade offered."""
+
+    @property
+    def offered(self) -> bool:
+        """True for a use a server offers but current clients do not negotiate."""
+        return self.use.role == "offered"
     band: UseBand | None = None
     """10-90 % band of P(exposed), z and start-by over the uncertainty samples, for the part
     that decides the use; None where no quantum arrival applies (added by the threat model)."""
@@ -104,7 +158,13 @@ class SystemAssessment:
     rank: int
     """1 = migrate first."""
     reason: str
-    """One line: why the system sits at this place."""
+    """One line: why the system has its verdict (the deciding use's reason)."""
+    priority: Priority | None = None
+    """The priority points that order systems of the same verdict, and their parts."""
+    rank_reason: str = ""
+    """One line: the factor that put this row below its neighbour above."""
+    flags: tuple[Flag, ...] = ()
+    """Cautions of its uses (legacy, deprecated, downgrade), in use order."""
 
 
 @dataclass(frozen=True)

@@ -26,7 +26,7 @@ import re
 from dataclasses import dataclass, field, replace
 from typing import Any
 
-from pqtriage.model.inventory import USE_ROLES, CryptoUse, Purpose, SourceRef
+from pqtriage.model.inventory import USE_ROLES, CryptoUse, Purpose, SignatureRole, SourceRef
 from pqtriage.sources.cbom_refs import KeyFacts, References, date_of
 
 PRIMITIVE_PURPOSE: dict[str, Purpose] = {
@@ -85,7 +85,7 @@ AES-GCM); other modes (cfb, ofb) leave the cipher to be rated alone (NIST SP 800
 RSA_NAMES = ("rsa", "rsaencryption")
 """Names a CycloneDX padding turns into an RSA scheme (padding oaep -> RSA-OAEP)."""
 USE_PROPERTIES = ("algorithm", "key_size", "curve", "parameter_set", "purpose", "trust_years", "not_before",
-                  "not_after", "role", "protocol", "notes", "assumed")
+                  "not_after", "role", "signature_role", "protocol", "notes", "assumed")
 """``pqtriage:<field>`` properties of a cryptographic asset that ``--format cbom`` writes: the
 use's facts exactly as they were, read back in preference to what the standard fields say."""
 
@@ -481,6 +481,8 @@ def exact_facts(use: CryptoUse, component: dict[str, Any]) -> CryptoUse:
             changes[name] = date_of(text[name])
     if text["role"] in USE_ROLES:
         changes["role"] = text["role"]
+    if text["signature_role"] in {r.value for r in SignatureRole}:
+        changes["signature_role"] = SignatureRole(text["signature_role"])
     if text["assumed"] is not None:
         changes["assumed"] = tuple(a for a in text["assumed"].split(",") if a)
     return replace(use, **changes)

@@ -9,6 +9,8 @@ from importlib import resources
 from pathlib import Path
 
 from pqtriage.errors import Place, ProfileError
+from pqtriage.model.inventory import Criticality, Exposure
+from pqtriage.model.priority import PriorityWeights
 from pqtriage.model.profile import ThreatProfile, decimal_year
 from pqtriage.yamlio import Node, decode_text, load_yaml
 
@@ -23,8 +25,9 @@ reference date plus an arrival horizon (at most 200 years) stays within the cale
 _FIELDS = {
     "name", "description", "source", "caveat", "reference_task", "reference_date", "arrival",
     "risk_tolerance", "per_algorithm_arrival", "crqc_year", "qubit_doubling_years", "central",
-    "tail", "tail_end_years",
+    "tail", "tail_end_years", "priority",
 }
+_PRIORITY_FIELDS = {"per_percent", "per_year_overdue", "time_cap_years", "criticality", "interception"}
 _TAILS = ("last-interval-rate",)
 """Tail rules beyond the survey's last horizon (docs/threat-model.md section 4)."""
 _FLAGS = ("V", "V2", "M")
@@ -78,6 +81,43 @@ def _text(path: str, raw: dict[str, Node], key: str, default: str) -> str:
     return " ".join(value.split())
 
 
+def _points(path: str, node: Node, label: str, names: tuple[str, ...],
+            default: tuple[tuple[str, float], ...]) -> tuple[tuple[str, float], ...]:
+    if not isinstance(node.value, dict):
+        raise _fail(path, node, f"'{label}' must map {', '.join(names)} to points")
+    given = dict(default)
+    for key, child in node.value.items():
+        if key not in names:
+            raise _fail(path, child, f"unknown {label} value '{key}'", f"use {', '.join(names)}")
+        given[key] = _number(path, child, f"{label}.{key}", -1000, 1000)
+    return tuple((name, given[name]) for name in names)
+
+
+def _priority(path: str, node: Node) -> PriorityWeights:
+    """The ``priority:`` section: points per factor (docs/method.md, "Ranking")."""
+    if not isinstance(node.value, dict):
+        raise _fail(path, node, "'priority' must be a mapping", f"fields: {', '.join(sorted(_PRIORITY_FIELDS))}")
+    raw: dict[str, Node] = node.value
+    for key, child in raw.items():
+        if key not in _PRIORITY_FIELDS:
+            close = difflib.get_close_matches(key, sorted(_PRIORITY_FIELDS), n=1)
+            raise _fail(path, child, f"unknown field '{key}' in 'priority'",
+                        f"did you mean '{close[0]}'?" if close else None)
+    base = PriorityWeights()
+    return PriorityWeights(
+        per_percent=_number(path, raw["per_percent"], "per_percent", 0, 1000)
+        if "per_percent" in raw else base.per_percent,
+        per_year_overdue=_number(path, raw["per_year_overdue"], "per_year_overdue", 0, 1000)
+        if "per_year_overdue" in raw else base.per_year_overdue,
+        time_cap_years=_number(path, raw["time_cap_years"], "time_cap_years", 0, 200)
+        if "time_cap_years" in raw else base.time_cap_years,
+        criticality=_points(path, raw["criticality"], "criticality", tuple(c.value for c in Criticality),
+                            base.criticality) if "criticality" in raw else base.criticality,
+        interception=_points(path, raw["interception"], "interception", tuple(e.value for e in Exposure),
+                             base.interception) if "interception" in raw else base.interception,
+    )
+
+
 def parse_profile(data: bytes, path: str) -> ThreatProfile:
     """Validate a profile document. A file holding only ``crqc_year: 2035`` is valid."""
     root = load_yaml(decode_text(data, path, ProfileError), path, ProfileError)
@@ -96,6 +136,7 @@ def parse_profile(data: bytes, path: str) -> ThreatProfile:
     doubling = None
     if "qubit_doubling_years" in raw:
         doubling = _number(path, raw["qubit_doubling_years"], "qubit_doubling_years", 0.1, 50)
+    priority = _priority(path, raw["priority"]) if "priority" in raw else PriorityWeights()
     per_algorithm = False
     if "per_algorithm_arrival" in raw:
         if not isinstance(raw["per_algorithm_arrival"].value, bool):
@@ -122,6 +163,7 @@ def parse_profile(data: bytes, path: str) -> ThreatProfile:
             per_algorithm_arrival=per_algorithm,
             caveat=_text(path, raw, "caveat", ""),
             qubit_doubling_years=doubling,
+            priority=priority,
         )
 
     if "arrival" not in raw or "reference_date" not in raw:
@@ -220,4 +262,5 @@ def parse_profile(data: bytes, path: str) -> ThreatProfile:
         central_position=position,
         row_flags=tuple(flags),
         tail_end_years=tail_years,
+        priority=priority,
     )

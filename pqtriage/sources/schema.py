@@ -17,6 +17,7 @@ from pqtriage.model.inventory import (
     Impact,
     KeyStorage,
     Purpose,
+    SignatureRole,
 )
 
 MAX_SHELF_LIFE_YEARS = 100.0
@@ -111,6 +112,8 @@ USE_FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("parameter_set", "str", "Parameter set, when the name does not fix it (768, 65 ...)."),
     FieldSpec("trust_years", "number", "How long signatures or integrity tags made here must stay "
               "unforgeable (years).", minimum=0, maximum=MAX_SHELF_LIFE_YEARS),
+    FieldSpec("signature_role", "enum", "What a signature protects; sets the cautious default x when "
+              "trust_years is absent (docs/method.md).", choices=tuple(r.value for r in SignatureRole)),
     FieldSpec("protocol", "str", "Protocol carrying the use (TLS 1.3, SSH, IPsec ...)."),
     FieldSpec("protocol_version", "str", "Version of that protocol, when not in its name (1.3, 2 ...)."),
     FieldSpec("key_storage", "enum", "Where this use's key is kept (overrides the system's).",

@@ -25,12 +25,14 @@ from pqtriage.model.inventory import (
     CryptoUse,
     DataClassification,
     Exposure,
+    Fact,
     Hosting,
     HostingModel,
     Impact,
     Inventory,
     KeyStorage,
     Purpose,
+    SignatureRole,
     SourceRef,
     System,
 )
@@ -45,6 +47,16 @@ from pqtriage.sources.schema import (
     FieldSpec,
 )
 from pqtriage.yamlio import Node, load_yaml, paused_gc
+
+_FACT_FIELDS = ("algorithm", "purpose", "key_size", "curve", "parameter_set", "trust_years", "signature_role", "role",
+                "not_before", "not_after")
+"""Use fields recorded as facts with their own line and column."""
+
+def _fact_text(value: object) -> str:
+    if isinstance(value, float):
+        return f"{value:g}"
+    return value.isoformat() if hasattr(value, "isoformat") else str(value)
+
 
 _TYPE_NAMES = {str: "text", int: "a whole number", float: "a number", bool: "true/false",
                list: "a list", dict: "a mapping", type(None): "nothing"}
@@ -258,6 +270,14 @@ class _Reader:
         if any(v is _MISSING for v in values.values()):
             return None
         storage = values.get("key_storage")
+        assumed = set(values.get("assumed", ()))
+        evidence = tuple(
+            Fact(name, _fact_text(values[name]),
+                 "default" if name in assumed else "inventory",
+                 SourceRef(self.path, raw[name].key_line or raw[name].line,
+                           raw[name].key_column or raw[name].column, values.get("source")))
+            for name in _FACT_FIELDS if name in raw
+        )
         use = CryptoUse(
             purpose=Purpose(values["purpose"]),
             algorithm=values["algorithm"],
@@ -279,6 +299,8 @@ class _Reader:
             not_before=values.get("not_before"),
             not_after=values.get("not_after"),
             oid=values.get("oid"),
+            signature_role=SignatureRole(values["signature_role"]) if "signature_role" in values else None,
+            evidence=evidence,
         )
         if self.check is not None:
             for found in self.check(use):

@@ -35,6 +35,9 @@ def _use(use: CryptoUse) -> dict[str, Any]:
     _put(out, "curve", use.curve)
     _put(out, "parameter_set", use.parameter_set)
     _put(out, "trust_years", use.trust_years)
+    _put(out, "signature_role", use.signature_role.value if use.signature_role else None)
+    if use.role != "in-use":
+        out["role"] = use.role
     _put(out, "protocol", use.protocol)
     _put(out, "protocol_version", use.protocol_version)
     _put(out, "key_storage", _enum(use.key_storage))

@@ -19,7 +19,8 @@ from tests.formats.test_table import banded_result
 
 def test_markdown_shows_the_band_and_the_ranking_rule() -> None:
     text = render_report(banded_result())
-    assert "| 59% (47-65%) | exposed |" in text
+    # P with its band, then the priority points (59 + 9 years overdue + medium 10 + internal 5), then the verdict.
+    assert "| 59% (47-65%) | 83 | exposed |" in text
     assert "Verdicts and the ranking use the central values" in text
     assert "Uncertainty: 10-90 % band from 256 seeded samples" in text
 

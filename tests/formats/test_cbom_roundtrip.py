@@ -18,8 +18,9 @@ from typing import Any
 
 import pytest
 from cryptography.hazmat.primitives.asymmetric import ec
-from hypothesis import HealthCheck, given, settings
+from hypothesis import HealthCheck, given, reject, settings
 
+from pqtriage.errors import InventoryError
 from pqtriage.formats.cbom.triage import CbomFormat
 from pqtriage.model.inventory import Inventory
 from pqtriage.model.verdict import TriageResult
@@ -160,7 +161,14 @@ def test_export_then_import_gives_identical_verdicts(tmp_path: Path, inventory: 
     # Through YAML first, as a user would have it (the reader fills in what the file says).
     path = tmp_path / "inv.yaml"
     path.write_text(inventory_to_yaml(inventory), encoding="utf-8")
-    source = run_triage(str(path), None, AS_OF)
+    try:
+        source = run_triage(str(path), None, AS_OF)
+    except InventoryError as error:
+        # A generated name one letter from a catalog spelling ('0Dß' for 'DSS') is refused by the
+        # reader as a typing mistake: no inventory, nothing to round-trip.
+        if "unknown algorithm" not in error.diagnostics():
+            raise
+        reject()
     again, _ = round_trip(source, tmp_path)
     assert verdicts(again) == verdicts(source)
 

@@ -30,7 +30,7 @@ def test_required_fields_of_the_log_run_and_tool(tmp_path: Path) -> None:
     assert isinstance(driver["name"], str) and driver["name"]  # 3.19.8 name required
     rules = driver["rules"]
     ids = [r["id"] for r in rules]  # 3.49.3 reportingDescriptor id required
-    assert ids == [v.value for v in Verdict]  # one rule per verdict
+    assert ids == [v.value for v in Verdict] + ["legacy", "deprecated", "downgrade"]  # per verdict, per flag kind
     for rule in rules:
         for key in ("shortDescription", "fullDescription", "help"):  # 3.49.9, 3.49.10, 3.49.12
             assert isinstance(rule[key]["text"], str) and rule[key]["text"]  # 3.12 multiformatMessageString text

@@ -67,10 +67,36 @@ def test_purpose_sets_x() -> None:
     assert by_id["t"].start_by == dt.date(2033, 1, 1)
 
 
-def test_signature_without_trust_years_states_the_assumption() -> None:
+def test_signature_without_trust_years_takes_the_cautious_default_and_says_so() -> None:
+    # The fake trust table (tests/fakes.py): unknown role 5 years, every role 20, live
+    # authentication 0. x = 5, y = 2: 7 < 9, within margin (margin 2).
     item = _run(_system("s", 30, 2, CryptoUse(Purpose.SIGNATURE, "ECDSA P-256"))).items[0]
-    assert item.uses[0].x_years == 0
-    assert any("trust_years" in a for a in item.uses[0].assumptions)
+    assert item.uses[0].x_years == 5
+    assert item.margin_years == pytest.approx(2)
+    assert any("no trust_years: x = 5 years" in a and "role is not given" in a for a in item.uses[0].assumptions)
+    assert any(f.name == "trust_years" and f.value == "5" and f.origin == "default" for f in item.uses[0].facts)
+
+
+def test_the_signature_role_sets_the_default_x() -> None:
+    from pqtriage.model.inventory import SignatureRole
+
+    # Root of trust: x = 20 (fake table), y = 2: 22 > 9, exposed, margin 9 - 22 = -13.
+    root = CryptoUse(Purpose.SIGNATURE, "ECDSA P-256", signature_role=SignatureRole.ROOT_OF_TRUST)
+    # Live authentication: x = 0, y = 2: margin 7.
+    live = CryptoUse(Purpose.SIGNATURE, "ECDSA P-256", signature_role=SignatureRole.LIVE_AUTHENTICATION)
+    # No role, but the system is in the CNSA 2.0 software-firmware-signing category: firmware
+    # signing, x = 20; an explicit trust_years always wins (x = 1, margin 6).
+    firmware = System(id="f", name="f", shelf_life_years=0, migration_years=2, policy_category="software-firmware-signing",
+                      uses=(CryptoUse(Purpose.SIGNATURE, "ECDSA P-256"),))
+    stated = CryptoUse(Purpose.SIGNATURE, "ECDSA P-256", trust_years=1, signature_role=SignatureRole.ROOT_OF_TRUST)
+    result = _run(_system("root", 0, 2, root), _system("live", 0, 2, live), firmware, _system("stated", 0, 2, stated))
+    by_id = {i.system.id: i for i in result.items}
+    assert (by_id["root"].verdict, by_id["root"].margin_years) == (Verdict.EXPOSED, pytest.approx(-13))
+    assert "a root-of-trust signature" in by_id["root"].uses[0].assumptions[0]
+    assert by_id["live"].margin_years == pytest.approx(7)
+    assert by_id["f"].uses[0].x_years == 20
+    assert "from the system's policy_category" in by_id["f"].uses[0].assumptions[0]
+    assert by_id["stated"].uses[0].x_years == 1 and by_id["stated"].uses[0].assumptions == ()
 
 
 def test_weakest_use_decides_and_ranking_order() -> None:
@@ -121,3 +147,15 @@ def test_ties_break_by_criticality_then_exposure_then_id() -> None:
     ]
     result = _run(*systems)
     assert [i.system.id for i in result.items] == ["d", "c", "a", "b"]
+
+
+def test_the_certificate_validity_comes_before_the_role_default() -> None:
+    from pqtriage.model.inventory import SignatureRole
+
+    # Valid until 2031-01-01, as of 2026-01-01: 1826 days / 365.25 = 5.0 years (model/validity.py);
+    # x = 5, y = 2: 7 < 9, within margin; the root-of-trust default (20 in the fake table) is not used.
+    use = CryptoUse(Purpose.SIGNATURE, "ECDSA P-256", not_after=dt.date(2031, 1, 1),
+                    signature_role=SignatureRole.ROOT_OF_TRUST)
+    item = _run(_system("s", 0, 2, use)).items[0]
+    assert item.uses[0].x_years == 5.0 and item.verdict == Verdict.WITHIN_MARGIN
+    assert "remaining validity" in item.uses[0].assumptions[0]

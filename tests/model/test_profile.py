@@ -133,3 +133,28 @@ def test_bad_profiles_name_the_place(text: bytes, message: str) -> None:
         parse_profile(text, "p.yaml")
     assert message in caught.value.diagnostics()
     assert caught.value.diagnostics().startswith("p.yaml:")
+
+
+def test_priority_weights_come_from_the_profile() -> None:
+    from pqtriage.model.priority import PriorityWeights
+    from pqtriage.sources.profile_file import load_profile, parse_profile
+
+    shipped = load_profile("survey-2025-upper").priority
+    assert shipped == PriorityWeights()  # the shipped profiles state the documented defaults
+    custom = parse_profile(b"crqc_year: 2035\npriority:\n  per_year_overdue: 2\n  criticality: {critical: 50}\n", "p.yaml")
+    assert custom.priority.per_year_overdue == 2 and custom.priority.criticality_points("critical") == 50
+    assert custom.priority.criticality_points("high") == 20  # the rest keep their defaults
+
+
+def test_priority_mistakes_are_one_line_with_the_place() -> None:
+    import pytest
+
+    from pqtriage.errors import ProfileError
+    from pqtriage.sources.profile_file import parse_profile
+
+    with pytest.raises(ProfileError) as caught:
+        parse_profile(b"crqc_year: 2035\npriority:\n  criticality: {urgent: 5}\n", "p.yaml")
+    assert "unknown criticality value 'urgent'" in caught.value.diagnostics()
+    assert "p.yaml:3:" in caught.value.diagnostics()
+    with pytest.raises(ProfileError, match="unknown field 'per_pct'"):
+        parse_profile(b"crqc_year: 2035\npriority:\n  per_pct: 1\n", "p.yaml")

@@ -34,7 +34,8 @@ def test_unassessed_system_has_no_date_and_no_probability_from_its_other_uses() 
     assert item.verdict is Verdict.UNASSESSED
     assert item.uses[0].start_by == dt.date(2032, 1, 1)  # the known use still has its own date
     assert (item.start_by, item.exposure_probability, item.margin_years) == (None, None, None)
-    assert item.reason.startswith("unassessed: use Frobnicate-9 (encryption, line 12): ")
+    assert item.reason.startswith("use Frobnicate-9 (encryption, line 12): ")  # the verdict's reason
+    assert item.rank_reason.startswith("first: ")  # the place has its own field
     assert "'Frobnicate-9' is not in the catalog" in item.reason
 
 

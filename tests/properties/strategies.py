@@ -18,6 +18,7 @@ from pqtriage.model.inventory import (
     Inventory,
     KeyStorage,
     Purpose,
+    SignatureRole,
     SourceRef,
     System,
 )
@@ -68,6 +69,7 @@ def uses(draw: st.DrawFn, text: st.SearchStrategy[str] = TEXT) -> CryptoUse:
         key_size=draw(st.none() | st.integers(1, 65536)),
         curve=draw(st.none() | TEXT),
         trust_years=draw(st.none() | st.integers(0, 100)),
+        signature_role=draw(st.none() | st.sampled_from(list(SignatureRole))),
         protocol=draw(st.none() | TEXT),
         protocol_version=draw(st.none() | TEXT_OR_LOOKALIKE),
         key_storage=draw(st.none() | st.sampled_from(list(KeyStorage))),

@@ -21,7 +21,8 @@ def comparable(inventory: Inventory) -> tuple:
     """Everything the inventory says, without where it was read from."""
     systems = []
     for system in inventory.systems:
-        uses = tuple(dataclasses.replace(u, source=None) for u in system.uses)
+        # A YAML use records each field's line and column as evidence: positions, left out here.
+        uses = tuple(dataclasses.replace(u, source=None, evidence=()) for u in system.uses)
         details = tuple(_detail(u.source) for u in system.uses)
         systems.append((dataclasses.replace(system, uses=uses, source=None), details, _detail(system.source)))
     return (inventory.organization, inventory.version, inventory.policies, inventory.frameworks,

@@ -110,10 +110,12 @@ def test_every_use_appears_exactly_once_in_json_and_markdown(inventory: Inventor
     by_id = {s.id: s for s in inventory.systems}
     for item in data["items"]:
         assert [u["algorithm"] for u in item["uses"]] == [u.algorithm for u in by_id[item["id"]].uses]
-    # Markdown: one row per use in each system's table (12 columns), none elsewhere.
+    # Markdown: one row per use in each system's table (13 columns), none elsewhere, and one
+    # numbered line of facts per use.
     text = render_report(result)
-    rows = [line for line in text.splitlines() if line.startswith("| ")
-            and len(re.findall(r"(?<!\\)\|", line)) == 13 and not line.startswith("| Algorithm |")]
+    detail = text.split("## System detail", 1)[1]
+    rows = [line for line in detail.splitlines() if line.startswith("| ")
+            and len(re.findall(r"(?<!\\)\|", line)) == 14 and not line.startswith("| Algorithm |")]
     assert len(rows) == sum(len(s.uses) for s in inventory.systems)
 
 
@@ -139,16 +141,20 @@ def test_every_use_appears_exactly_once_in_cbom(inventory: Inventory) -> None:
 @settings(max_examples=60, deadline=None)
 @given(inventories(text_ids=False, max_systems=8))
 def test_sarif_reports_every_urgent_use_exactly_once(inventory: Inventory) -> None:
-    # SARIF: one result per classically-broken, exposed or unassessed use, and no other.
+    # SARIF: one result per classically-broken, exposed or unassessed use, one warning per flag
+    # (legacy, deprecated, downgrade) of any use, and no other.
     result = run(inventory)
     urgent = {Verdict.CLASSICALLY_BROKEN, Verdict.EXPOSED, Verdict.UNASSESSED}
     expected = Counter((item.system.id, use.use.purpose.value, use.verdict.value)
                        for item in result.items for use in item.uses if use.verdict in urgent)
+    expected.update((item.system.id, use.use.purpose.value, flag.kind)
+                    for item in result.items for use in item.uses for flag in use.flags)
     results = json.loads(SarifFormat().render(result))["runs"][0]["results"]
     found = Counter((r["properties"]["system"], r["properties"]["purpose"], r["ruleId"]) for r in results)
     assert found == expected
     uses = sum(len(s.uses) for s in inventory.systems)
-    assert len(results) == uses - sum(use.verdict not in urgent for item in result.items for use in item.uses)
+    flags = sum(len(use.flags) for item in result.items for use in item.uses)
+    assert len(results) == uses + flags - sum(use.verdict not in urgent for item in result.items for use in item.uses)
 
 
 @settings(max_examples=60, deadline=None)
@@ -188,7 +194,7 @@ def test_raising_x_or_y_never_lowers_the_exposure_probability(
 
     def probability(shelf: float, migration: float) -> float:
         system = _system("s", algorithm, purpose, shelf, migration)
-        value = evaluate_use(system.uses[0], system, resolution, profile, arrival, AS_OF).exposure_probability
+        value = evaluate_use(system.uses[0], system, resolution, profile, arrival, AS_OF, catalog).exposure_probability
         assert value is not None
         return value
 

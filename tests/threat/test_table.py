@@ -54,7 +54,7 @@ def test_side_by_side_exact_text_with_grouping_and_legend() -> None:
         "  arXiv:2505.15917 and 1905.09749 rows, log-scale interpolation between them.",
         "falls: year at 10% risk tolerance / median, profile test, given no CRQC by 2026-04-01; band 10%:",
         "  the 10-90 % band of the first year over the survey range, the doubling time and the",
-        "  construction; broken now: classically broken today, no quantum date applies.",
+        "  construction; broken: classically broken today (its classical status), no quantum date applies.",
         "Caution: estimates are uncertain by years; official guidance and deadlines come first.",
     ]
 

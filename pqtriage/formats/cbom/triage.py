@@ -33,6 +33,8 @@ from typing import Any
 from pqtriage import __version__
 from pqtriage.catalog.spec import AlgorithmSpec
 from pqtriage.formats.interface import ResultFormat
+from pqtriage.formats.labels import flags_text
+from pqtriage.formats.notes import classical_text, fact_text
 from pqtriage.model.inventory import IN_USE, CryptoUse, System
 from pqtriage.model.verdict import SystemAssessment, TriageResult, UseAssessment
 from pqtriage.sources.cbom_fields import (
@@ -135,7 +137,9 @@ def _use_facts(use: CryptoUse) -> list[tuple[str, object]]:
         ("trust_years", use.trust_years),
         ("not_before", use.not_before.isoformat() if use.not_before else None),
         ("not_after", use.not_after.isoformat() if use.not_after else None),
-        ("role", use.role if use.role != IN_USE else None), ("protocol", use.protocol), ("notes", use.notes),
+        ("role", use.role if use.role != IN_USE else None),
+        ("signature_role", use.signature_role.value if use.signature_role else None),
+        ("protocol", use.protocol), ("notes", use.notes),
     ]
 
 
@@ -147,10 +151,14 @@ def _use_properties(system: System, item: UseAssessment) -> list[dict[str, str]]
         ("exposure_probability", None if item.exposure_probability is None else round(item.exposure_probability, 4)),
         ("start_by", item.start_by.isoformat() if item.start_by else None),
         ("replacement", item.replacement),
-        ("classical_status", spec.classical_status if spec else None),
+        ("classical_status", item.classical.status if item.classical else None),
+        ("classical_status_text", classical_text(item.classical) if item.classical else None),
         ("quantum_attack", spec.quantum_attack if spec else None),
         ("deciding_component", item.deciding.name if item.deciding else None),
         ("assumed", ",".join(item.use.assumed)),
+        ("flags", flags_text(item.flags)),
+        ("conflicts", "; ".join(c.describe(item.use.algorithm) for c in item.conflicts)),
+        ("facts", "; ".join(fact_text(f) for f in item.facts)),
         *use_properties(item.use),
     ])
 
@@ -203,6 +211,9 @@ def _system_component(item: SystemAssessment) -> dict[str, Any]:
         component["description"] = system.description
     component["properties"] = _properties([
         ("verdict", item.verdict.value), ("rank", item.rank), ("reason", item.reason),
+        ("rank_reason", item.rank_reason),
+        ("priority_points", item.priority.points if item.priority else None),
+        ("flags", flags_text(item.flags)),
         ("exposure_probability", None if item.exposure_probability is None else round(item.exposure_probability, 4)),
         ("margin_years", None if item.margin_years is None else round(item.margin_years, 2)),
         ("start_by", item.start_by.isoformat() if item.start_by else None),

@@ -13,7 +13,8 @@ import io
 import math
 
 from pqtriage.formats.interface import ResultFormat
-from pqtriage.formats.labels import short_replacement
+from pqtriage.formats.labels import flags_text, short_replacement, system_replacement
+from pqtriage.formats.notes import classical_text, fact_text
 from pqtriage.formats.text import csv_cell
 from pqtriage.model.verdict import SystemAssessment, TriageResult
 
@@ -23,6 +24,7 @@ COLUMNS: tuple[str, ...] = (
     "exposure_probability_low", "exposure_probability_high", "start_by_earliest", "start_by_latest",
     "crqc_year", "crqc_year_low", "crqc_year_high",
     "replacement", "criticality", "exposure", "owner", "assumed", "reason",
+    "classical_status", "flags", "priority_points", "rank_reason", "facts",
 )
 """Header row: the ranked table's columns, the 10-90 % band of P, start-by and z (empty where
 none applies; infinite years empty), then the facts a spreadsheet user filters on."""
@@ -64,12 +66,17 @@ def row(item: SystemAssessment) -> list[str]:
         _number(weakest.crqc_year, 2) if weakest else "",
         _number(band.crqc_year.low, 2) if band else "",
         _number(band.crqc_year.high, 2) if band else "",
-        csv_cell(short_replacement(weakest.replacement) if weakest and weakest.replacement else ""),
+        csv_cell(short_replacement(system_replacement(item)) if system_replacement(item) else ""),
         system.criticality.value,
         system.exposure.value,
         csv_cell(system.owner or ""),
         csv_cell(" ".join(system.assumed)),
         csv_cell(item.reason),
+        csv_cell(classical_text(weakest.classical) if weakest and weakest.classical else ""),
+        csv_cell(flags_text(item.flags)),
+        _number(item.priority.points, 4) if item.priority else "",
+        csv_cell(item.rank_reason),
+        csv_cell("; ".join(fact_text(f) for f in weakest.facts) if weakest else ""),
     ]
 
 

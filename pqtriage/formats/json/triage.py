@@ -4,17 +4,21 @@ from __future__ import annotations
 
 import json
 import math
+import secrets
 from typing import Any
 
 from pqtriage import __version__
+from pqtriage.catalog.transitions import Standing
 from pqtriage.formats.bands import band_dict, system_band
 from pqtriage.formats.interface import ResultFormat
 from pqtriage.formats.notes import CAUTIONS, SOURCES, assumptions
-from pqtriage.model.inventory import SourceRef
-from pqtriage.model.verdict import SystemAssessment, TriageResult, UseAssessment
+from pqtriage.model.inventory import Fact, SourceRef
+from pqtriage.model.priority import Priority
+from pqtriage.model.verdict import Flag, SystemAssessment, TriageResult, UseAssessment
 
-SCHEMA_VERSION = 1
-"""Bumped on any incompatible change of the JSON structure."""
+SCHEMA_VERSION = 2
+"""Bumped on any incompatible change of the JSON structure (2: classical status by date with its
+rule, conflicts, facts, flags, priority points and the rank reason in its own field)."""
 
 
 def _number(value: float | None, digits: int = 4) -> float | None:
@@ -29,6 +33,80 @@ def _source(ref: SourceRef | None) -> dict[str, Any] | None:
     return {"file": ref.file, "line": ref.line, "column": ref.column, "detail": ref.detail}
 
 
+def _date(value: object) -> str | None:
+    return value.isoformat() if value is not None else None  # type: ignore[attr-defined]
+
+
+def classical_dict(standing: Standing | None) -> dict[str, Any] | None:
+    """The classical status by date, its rule and document, and the next scheduled status.
+
+    ``document`` is the short citation (DRAFT in front for a draft); the full title, section, flag
+    and note are in the top-level ``classical_rules`` table, once per rule.
+    """
+    if standing is None:
+        return None
+    return {
+        "status": standing.status,
+        "algorithm": standing.algorithm,
+        "since": _date(standing.since),
+        "until": _date(standing.until),
+        "rule": standing.rule,
+        "document": standing.short,
+        "draft": standing.draft,
+        "next": None if standing.next_status is None else {
+            "status": standing.next_status, "from": _date(standing.next_date),
+            "document": standing.next_short,
+        },
+    }
+
+
+def rules_table(result: TriageResult) -> dict[str, Any]:
+    """Every classical-status rule the result uses: section, flag (V, V2, M, row) and note."""
+    table: dict[str, Any] = {}
+    for item in result.items:
+        for use in item.uses:
+            standing = use.classical
+            if standing is not None and standing.rule not in table:
+                title = standing.document if standing.flag != "row" or standing.status == "acceptable" else (
+                    "the catalog row of each algorithm (its own source)")
+                table[standing.rule] = {"document": title, "section": standing.section, "flag": standing.flag,
+                                        "note": standing.note}
+    return dict(sorted(table.items()))
+
+
+def fact_dict(fact: Fact, home: str | None) -> dict[str, Any]:
+    """One fact with where it came from (``file`` only when it is not the use's own file)."""
+    out: dict[str, Any] = {"name": fact.name, "value": fact.value, "origin": fact.origin}
+    ref = fact.source
+    if ref is not None:
+        if ref.file != home:
+            out["file"] = ref.file
+        out["line"] = ref.line
+        out["column"] = ref.column
+        if ref.detail:
+            out["detail"] = ref.detail
+    return out
+
+
+def flag_dict(flag: Flag) -> dict[str, Any]:
+    """One flag beside a verdict."""
+    return {"kind": flag.kind, "algorithm": flag.algorithm, "text": flag.text, "date": _date(flag.date),
+            "draft": flag.draft}
+
+
+def priority_dict(priority: Priority | None) -> dict[str, Any] | None:
+    """Priority points and their parts."""
+    if priority is None:
+        return None
+    return {
+        "points": priority.points,
+        "parts": [{"factor": p.factor, "shown": p.shown, "points": p.points} for p in priority.parts],
+        "probability_shown_percent": priority.probability_shown,
+        "margin_shown_years": priority.margin_shown,
+        "text": priority.text(),
+    }
+
+
 def use_dict(item: UseAssessment) -> dict[str, Any]:
     """One use as a JSON-ready dict."""
     spec = item.deciding or item.spec
@@ -38,6 +116,7 @@ def use_dict(item: UseAssessment) -> dict[str, Any]:
         "deciding_component": item.deciding.name if item.deciding else None,
         "purpose": item.use.purpose.value,
         "role": item.use.role,
+        "signature_role": item.use.signature_role.value if item.use.signature_role else None,
         "key_size": item.use.key_size,
         "curve": item.use.curve,
         "parameter_set": item.use.parameter_set,
@@ -53,7 +132,10 @@ def use_dict(item: UseAssessment) -> dict[str, Any]:
         "fips_140_certificate": item.use.fips_140_certificate,
         "fips_140_level": item.use.fips_140_level,
         "classical_bits": spec.classical_bits if spec else None,
-        "classical_status": spec.classical_status if spec else None,
+        "classical_status": item.classical.status if item.classical else None,
+        "classical": classical_dict(item.classical),
+        "conflicts": [{"attribute": c.attribute, "named": c.named, "given": c.given} for c in item.conflicts],
+        "flags": [flag_dict(f) for f in item.flags],
         "quantum_attack": spec.quantum_attack if spec else None,
         "nist_category": spec.nist_category if spec else None,
         "replacement": item.replacement,
@@ -71,6 +153,7 @@ def use_dict(item: UseAssessment) -> dict[str, Any]:
         "suggestions": list(item.suggestions),
         "assumptions": list(item.assumptions),
         "source": _source(item.use.source),
+        "facts": [fact_dict(f, item.use.source.file if item.use.source else None) for f in item.facts],
     }
 
 
@@ -114,6 +197,9 @@ def system_dict(item: SystemAssessment) -> dict[str, Any]:
         "start_by": item.start_by.isoformat() if item.start_by else None,
         "band": band_dict(system_band(item)),
         "reason": item.reason,
+        "rank_reason": item.rank_reason,
+        "priority": priority_dict(item.priority),
+        "flags": [flag_dict(f) for f in item.flags],
         "shelf_life_years": system.shelf_life_years,
         "migration_years": system.migration_years,
         "criticality": system.criticality.value,
@@ -168,6 +254,13 @@ def result_dict(result: TriageResult, with_items: bool = True) -> dict[str, Any]
             "risk_tolerance": profile.risk_tolerance,
             "crqc_year": profile.crqc_year,
             "caveat": profile.caveat,
+            "priority": {
+                "per_percent": profile.priority.per_percent,
+                "per_year_overdue": profile.priority.per_year_overdue,
+                "time_cap_years": profile.priority.time_cap_years,
+                "criticality": dict(profile.priority.criticality),
+                "interception": dict(profile.priority.interception),
+            },
         },
         "arrival_model": result.arrival_model,
         "uncertainty": None if result.band is None else {
@@ -190,6 +283,7 @@ def result_dict(result: TriageResult, with_items: bool = True) -> dict[str, Any]
         },
         **({"selection": selection_dict(result)} if result.selection else {}),
         "items": [system_dict(i) for i in result.items] if with_items else [],
+        "classical_rules": rules_table(result),
         "arrivals": [
             {"algorithm": a.algorithm, "crqc_year": _number(a.crqc_year, 2),
              "shift_years": _number(a.shift_years, 2), "beyond_horizon": math.isinf(a.crqc_year),
@@ -200,6 +294,25 @@ def result_dict(result: TriageResult, with_items: bool = True) -> dict[str, Any]
         "cautions": list(CAUTIONS),
         "sources": list(SOURCES),
     }
+
+
+_COMPACT = ("classical", "facts")
+"""Per-use members written on one line each (they repeat for every use of a large inventory)."""
+
+
+def _system_text(item: SystemAssessment, token: str) -> str:
+    """One system, indented as in the whole document, each use's classical status and facts on
+    one line (compact JSON, the same values)."""
+    data = system_dict(item)
+    compact: list[str] = []
+    for use in data["uses"]:
+        for key in _COMPACT:
+            compact.append(json.dumps(use[key], ensure_ascii=False))
+            use[key] = f"{token}:{len(compact) - 1}"
+    text = "    " + json.dumps(data, indent=2, ensure_ascii=False).replace("\n", "\n    ")
+    for number, piece in enumerate(compact):
+        text = text.replace(f'"{token}:{number}"', piece, 1)
+    return text
 
 
 class JsonFormat(ResultFormat):
@@ -215,9 +328,13 @@ class JsonFormat(ResultFormat):
             return head + "\n"
         marker = '\n  "items": [],\n'
         before, after = head.split(marker, 1)
-        items = ",\n".join(
-            "    " + json.dumps(system_dict(i), indent=2, ensure_ascii=False).replace("\n", "\n    ")
-            for i in result.items
-        )
-        return f'{before}\n  "items": [\n{items}\n  ],\n{after}\n'
+        # One list of parts and one join: the text is held twice at most, not three times.
+        parts = [before, '\n  "items": [\n']
+        token = secrets.token_hex(16)  # never in the output: it only marks where each use's facts go
+        for index, item in enumerate(result.items):
+            if index:
+                parts.append(",\n")
+            parts.append(_system_text(item, token))
+        parts += ["\n  ],\n", after, "\n"]
+        return "".join(parts)
 

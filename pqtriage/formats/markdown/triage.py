@@ -14,8 +14,15 @@ from pqtriage.formats.bands import (
     year_range,
 )
 from pqtriage.formats.interface import ResultFormat
-from pqtriage.formats.labels import VERDICT_LABEL, short_replacement
-from pqtriage.formats.notes import CAUTIONS, SOURCES, assumptions, fmt_year
+from pqtriage.formats.labels import VERDICT_LABEL, flags_text, short_replacement, system_replacement
+from pqtriage.formats.notes import (
+    CAUTIONS,
+    SOURCES,
+    assumptions,
+    classical_text,
+    fact_text,
+    fmt_year,
+)
 from pqtriage.formats.text import markdown_code, markdown_text
 from pqtriage.model.verdict import (
     VERDICT_MEANING,
@@ -69,6 +76,10 @@ def _start_by(value: object, as_of: object) -> str:
     return text
 
 
+def _points(item: SystemAssessment) -> str:
+    return "n/a" if item.priority is None else f"{item.priority.points:g}"
+
+
 def _table(header: Sequence[str], rows: Sequence[Sequence[str]]) -> list[str]:
     lines = ["| " + " | ".join(header) + " |", "|" + "|".join("---" for _ in header) + "|"]
     lines += ["| " + " | ".join(row) + " |" for row in rows]
@@ -84,28 +95,42 @@ def _algorithm(use: UseAssessment) -> str:
     return md(spec.name)
 
 
+def _weights(result: TriageResult) -> str:
+    weights = result.profile.priority
+    criticality = ", ".join(f"{name} {points:g}" for name, points in weights.criticality)
+    interception = ", ".join(f"{name} {points:g}" for name, points in weights.interception)
+    return (f"{weights.per_percent:g} per percent of exposure probability shown; {weights.per_year_overdue:g} per "
+            f"whole year overdue, minus as much per year of margin, capped at {weights.time_cap_years:g} years; "
+            f"criticality {criticality}; interception {interception}")
+
+
 def executive_summary(result: TriageResult) -> list[str]:
     """Counts, what is overdue and what to do first."""
     s = result.summary
     lines = ["## Executive summary", ""]
     lines.append(
-        f"The inventory lists {s.systems} systems with {s.uses} cryptographic uses. "
-        f"{s.counts[Verdict.CLASSICALLY_BROKEN]} are broken or unacceptable against classical attacks today, "
-        f"{s.counts[Verdict.EXPOSED]} are exposed under Mosca's inequality at the profile's risk tolerance, "
-        f"{s.counts[Verdict.UNASSESSED]} could not be assessed, "
-        f"{s.counts[Verdict.WITHIN_MARGIN]} are quantum-vulnerable but within margin and "
-        f"{s.counts[Verdict.QUANTUM_RESISTANT]} are quantum-resistant."
+        f"The inventory lists {s.systems} systems with {s.uses} cryptographic uses. Systems per verdict: "
+        f"{s.counts[Verdict.CLASSICALLY_BROKEN]} classically-broken (broken or not acceptable against classical "
+        f"attacks today), {s.counts[Verdict.EXPOSED]} exposed (Mosca's inequality fails at the profile's risk "
+        f"tolerance), {s.counts[Verdict.UNASSESSED]} unassessed, {s.counts[Verdict.WITHIN_MARGIN]} within-margin "
+        f"(quantum-vulnerable, migration can still finish in time) and {s.counts[Verdict.QUANTUM_RESISTANT]} "
+        "quantum-resistant."
     )
     lines.append("")
     if s.overdue:
         lines.append(
-            f"{len(s.overdue)} systems are overdue (their latest start date has passed or they are broken now): "
+            f"{len(s.overdue)} systems are overdue (their latest start date has passed or they are classically-broken): "
             + ", ".join(md(i) for i in s.overdue) + "."
         )
         lines.append("")
     upcoming = sorted(i.start_by for i in result.items if i.start_by and i.start_by > result.as_of)
     if upcoming:
         lines.append(f"Next start-by date still ahead: {upcoming[0].isoformat()}.")
+        lines.append("")
+    flagged = [i for i in result.items if i.flags]
+    if flagged:
+        lines.append(f"{len(flagged)} systems carry flags (legacy or deprecated algorithms, weaker methods offered): "
+                     + "; ".join(f"{md(i.system.id)}: {md(flags_text(i.flags))}" for i in flagged) + ".")
         lines.append("")
     top = [i for i in result.items if i.verdict in (Verdict.CLASSICALLY_BROKEN, Verdict.EXPOSED)][:5]
     if top:
@@ -148,18 +173,30 @@ def _ranked_rows(result: TriageResult, items: Sequence[SystemAssessment], headin
             f"{item.system.migration_years:g}",
             _start_band(item.start_by, system_band(item), result.as_of),
             _pct_band(item.exposure_probability, system_band(item)),
+            _points(item),
             VERDICT_LABEL[item.verdict],
-            md(short_replacement(weakest.replacement if weakest else None)),
+            md(flags_text(item.flags)) or "none",
+            md(short_replacement(system_replacement(item))),
+            md(item.rank_reason),
         ])
     lines = [heading, ""]
     lines += _table(
-        ["#", "System", "Weakest use", "Purpose", "x (y)", "y (y)", "Start by", "P(exposed)", "Verdict", "Replace with"],
+        ["#", "System", "Weakest use", "Purpose", "x (y)", "y (y)", "Start by", "P(exposed)", "Priority",
+         "Verdict", "Flags", "Replace with", "Why here"],
         rows,
     )
     lines.append("")
     if not legend:
         return lines
     lines.append("Verdicts: " + "; ".join(f"**{VERDICT_LABEL[v]}**: {VERDICT_MEANING[v]}" for v in Verdict) + ".")
+    lines.append("")
+    lines.append(
+        "Order: verdict first, then priority points (the exposure probability shown in whole percent, plus "
+        "one point per whole year past the latest safe date, minus one per year of margin, capped at "
+        f"{result.profile.priority.time_cap_years:g}, plus points for criticality and for exposure to "
+        "interception); equal points fall back to the probability and margin shown, criticality, exposure and "
+        "the id. \"Why here\" names the factor that put a row below the one above it."
+    )
     if result.band is not None:
         lines.append("")
         lines.append(BAND_NOTE)
@@ -177,6 +214,9 @@ def system_detail(item: SystemAssessment, as_of: object = None) -> list[str]:
     facts = [
         ("Id", markdown_code(system.id)),
         ("Verdict", f"{VERDICT_LABEL[item.verdict]} ({md(item.reason)})"),
+        ("Place", f"{item.rank}: {md(item.rank_reason)}"),
+        ("Priority points", md(item.priority.text()) if item.priority else "n/a"),
+        ("Flags", md(flags_text(item.flags)) or "none"),
         ("Shelf-life x", f"{system.shelf_life_years:g} years" + (" (assumed)" if "shelf_life_years" in system.assumed else "")),
         ("Migration y", f"{system.migration_years:g} years" + (" (assumed)" if "migration_years" in system.assumed else "")),
         ("Exposure probability", _pct_band(item.exposure_probability, system_band(item))),
@@ -199,26 +239,34 @@ def system_detail(item: SystemAssessment, as_of: object = None) -> list[str]:
     rows = []
     for use in item.uses:
         spec = use.deciding or use.spec
+        bits = f"{spec.classical_bits} bits" if spec and spec.classical_bits is not None else "bits n/a"
         rows.append([
             _algorithm(use),
             md(use.use.purpose.value),
-            str(spec.classical_bits) if spec and spec.classical_bits is not None else "n/a",
+            md(use.use.role),
+            md(f"{classical_text(use.classical)}, {bits}") if use.classical else "n/a",
             spec.quantum_attack if spec else "n/a",
             f"{use.x_years:g}",
             _z_band(use.crqc_year, use.band),
             _pct_band(use.exposure_probability, use.band),
             _margin(use.margin_years),
-            VERDICT_LABEL[use.verdict],
+            VERDICT_LABEL[use.verdict] + (f" + {md(flags_text(use.flags))}" if use.flags else ""),
             md(use.replacement or "none needed" if use.verdict != Verdict.UNASSESSED else "check by hand"),
             md(use.reason),
             markdown_code(str(use.use.source)) if use.use.source else "n/a",
         ])
     if rows:
         lines += _table(
-            ["Algorithm", "Purpose", "Classical bits", "Quantum attack", "x", "z", "P(exposed)",
+            ["Algorithm", "Purpose", "Role", "Classical status", "Quantum attack", "x", "z", "P(exposed)",
              "Margin", "Verdict", "Replacement", "Reason", "Source"],
             rows,
         )
+        lines.append("")
+        lines.append("Facts each use rests on (origin and place):")
+        lines.append("")
+        for number, use in enumerate(item.uses, start=1):
+            facts_line = "; ".join(md(fact_text(fact)) for fact in use.facts) or "none recorded"
+            lines.append(f"{number}. {md(use.use.algorithm)}: {facts_line}")
         lines.append("")
     notes = sorted({a for use in item.uses for a in use.assumptions})
     if notes:
@@ -253,9 +301,17 @@ def method_section(result: TriageResult) -> list[str]:
     lines.append(f"Per-algorithm arrival: {md(result.arrival_model)}.")
     lines.append("")
     lines.append(
-        "Ranking: classical breakage first, then exposure probability, then margin, then criticality and "
-        "exposure to interception; the system id breaks ties. A system's verdict is its weakest use's. "
-        "Verdicts and the ranking use the central values; the bands in parentheses are not used for ordering."
+        "Ranking: classical breakage first, then the other verdicts; within a verdict, priority points "
+        f"({md(_weights(result))}); the system id breaks remaining ties. A system's verdict is that of its "
+        "weakest use in use; an offered use that is classically broken makes the system classically-broken, "
+        "a weaker offered one is a downgrade flag. Verdicts and the ranking use the central values; the bands "
+        "in parentheses are not used for ordering."
+    )
+    lines.append("")
+    lines.append(
+        "Classical status by date: the rules of NIST SP 800-131A Rev. 2 (2019) on the as-of date, and of the "
+        "DRAFT NIST SP 800-131A Rev. 3 (October 2024) for the dates it sets later; disallowed or broken makes "
+        "a use classically-broken, legacy or deprecated is a flag beside the verdict."
     )
     if result.band is not None:
         lines.append("")

@@ -6,7 +6,8 @@ Mapping (OASIS Static Analysis Results Interchange Format (SARIF) Version 2.1.0)
   short and full descriptions and help;
 - one ``result`` per use whose verdict is classically-broken, exposed or unassessed (the
   verdicts at or above "treat as exposed"); within-margin and quantum-resistant uses are not
-  alerts;
+  alerts, but a flag of any use (legacy, deprecated, downgrade) is a ``warning`` result of the
+  rule of its kind, so a resistant use with a legacy algorithm is never silent;
 - ``level`` by severity: classically-broken and exposed are ``error``, unassessed ``warning``
   (within-margin would be ``note``, quantum-resistant ``none``);
 - location: the file and line the use was read from (inventory, CBOM or scanned file); a use
@@ -25,10 +26,12 @@ from urllib.parse import quote
 from pqtriage import __version__
 from pqtriage.formats.interface import ResultFormat
 from pqtriage.formats.labels import short_replacement
+from pqtriage.formats.notes import classical_text, fact_text
 from pqtriage.formats.text import visible
 from pqtriage.model.verdict import (
     SEVERITY,
     VERDICT_MEANING,
+    Flag,
     SystemAssessment,
     TriageResult,
     UseAssessment,
@@ -63,6 +66,20 @@ _HELP: dict[Verdict, str] = {
     Verdict.WITHIN_MARGIN: "Plan the migration before the start-by date shown in the report.",
     Verdict.QUANTUM_RESISTANT: "Nothing to do now; review when the threat profile changes.",
 }
+FLAG_RULES: dict[str, tuple[str, str]] = {
+    "legacy": ("Legacy algorithm: kept for existing data, not for new protection",
+               "Plan its replacement: the standard it rests on (or its catalog row) allows it only for "
+               "processing existing data, or it is not approved for new use."),
+    "deprecated": ("Deprecated algorithm: allowed for now, with a date after which it is not",
+                   "Replace it before its status turns disallowed; the flag names the date and the document "
+                   "(a DRAFT document is labelled so)."),
+    "downgrade": ("Weaker method offered beside the one in use",
+                  "Remove the weaker method from what the server offers: clients that still use it fall back "
+                  "to it."),
+}
+"""One warning rule per flag kind."""
+FLAG_LEVEL = "warning"
+
 _PROBE = re.compile(r"^[^/\\\s]+:\d+$")  # host:port, not a file
 
 
@@ -75,7 +92,22 @@ def _uri(path: str) -> str:
 
 
 def rules() -> list[dict[str, Any]]:
-    """One rule per verdict, most urgent first."""
+    """One rule per verdict, most urgent first, then one per flag kind."""
+    return _verdict_rules() + [
+        {
+            "id": kind,
+            "name": kind.capitalize(),
+            "shortDescription": {"text": short},
+            "fullDescription": {"text": short + "."},
+            "help": {"text": help_text},
+            "defaultConfiguration": {"level": FLAG_LEVEL},
+            "properties": {"tags": ["cryptography", "post-quantum", "flag"]},
+        }
+        for kind, (short, help_text) in FLAG_RULES.items()
+    ]
+
+
+def _verdict_rules() -> list[dict[str, Any]]:
     return [
         {
             "id": verdict.value,
@@ -127,7 +159,15 @@ def result_entry(item: SystemAssessment, use: UseAssessment, rule_index: int, in
         f"{item.system.id}\x1f{use.use.algorithm}\x1f{use.use.purpose.value}\x1f{detail}".encode()
     ).hexdigest()
     properties: dict[str, Any] = {"system": visible(item.system.id), "verdict": use.verdict.value,
-                                  "purpose": use.use.purpose.value, "rank": item.rank}
+                                  "purpose": use.use.purpose.value, "role": use.use.role, "rank": item.rank}
+    if use.classical is not None:
+        properties["classicalStatus"] = use.classical.status
+        properties["classicalStatusText"] = visible(classical_text(use.classical))
+    if use.flags:
+        properties["flags"] = [visible(flag.text) for flag in use.flags]
+    if use.conflicts:
+        properties["conflicts"] = [visible(c.describe(use.use.algorithm)) for c in use.conflicts]
+    properties["facts"] = [visible(fact_text(fact)) for fact in use.facts]
     if use.exposure_probability is not None:
         properties["exposureProbability"] = round(use.exposure_probability, 4)
     if use.start_by is not None:
@@ -159,15 +199,43 @@ def result_entry(item: SystemAssessment, use: UseAssessment, rule_index: int, in
     }
 
 
+def flag_entry(item: SystemAssessment, use: UseAssessment, flag: Flag, rule_index: int,
+               inventory_path: str | None) -> dict[str, Any]:
+    """The SARIF warning of one flag of a use."""
+    location, target = _location(item, use, inventory_path)
+    message = f"{item.system.id}: {flag.text} (verdict {use.verdict.value})"
+    if use.replacement:
+        message += f"; replace with {short_replacement(use.replacement)}"
+    if target:
+        message += f" (found at {target})"
+    detail = use.use.source.detail if use.use.source and use.use.source.detail else ""
+    fingerprint = hashlib.sha256(
+        f"{item.system.id}\x1f{use.use.algorithm}\x1f{use.use.purpose.value}\x1f{detail}\x1f{flag.kind}".encode()
+    ).hexdigest()
+    return {
+        "ruleId": flag.kind,
+        "ruleIndex": rule_index,
+        "level": FLAG_LEVEL,
+        "message": {"text": visible(message)},
+        "locations": [location],
+        "partialFingerprints": {"pqtriageUse/v1": fingerprint},
+        "properties": {"system": visible(item.system.id), "verdict": use.verdict.value, "flag": flag.kind,
+                       "purpose": use.use.purpose.value, "role": use.use.role, "rank": item.rank,
+                       "draft": flag.draft, "date": flag.date.isoformat() if flag.date else None},
+    }
+
+
 def sarif_log(result: TriageResult) -> dict[str, Any]:
     """The whole SARIF log as a JSON-ready dict."""
     index = {verdict: i for i, verdict in enumerate(Verdict)}
-    results = [
-        result_entry(item, use, index[use.verdict], result.inventory.source_path)
-        for item in result.items
-        for use in item.uses
-        if SEVERITY[use.verdict] >= REPORTED
-    ]
+    flag_index = {kind: len(index) + i for i, kind in enumerate(FLAG_RULES)}
+    results = []
+    for item in result.items:
+        for use in item.uses:
+            if SEVERITY[use.verdict] >= REPORTED:
+                results.append(result_entry(item, use, index[use.verdict], result.inventory.source_path))
+            results += [flag_entry(item, use, flag, flag_index[flag.kind], result.inventory.source_path)
+                        for flag in use.flags]
     return {
         "$schema": SARIF_SCHEMA,
         "version": SARIF_VERSION,

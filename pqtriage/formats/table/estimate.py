@@ -71,9 +71,9 @@ def year_band_label(band: tuple[float, float] | None) -> str:
 
 
 def falls_label(estimate: Estimate) -> str:
-    """'2031 / 2037' (cautious / median), 'broken now', 'beyond horizon', or '-' without years."""
+    """'2031 / 2037' (cautious / median), 'broken' (classical status), 'beyond horizon', or '-' without years."""
     if estimate.classically_broken:
-        return "broken now"
+        return "broken"
     arrival = estimate.arrival
     if arrival is None:
         return NOT_APPLICABLE

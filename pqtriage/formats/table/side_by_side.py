@@ -93,8 +93,8 @@ def _legend(context: TableContext) -> Text:
         lines.append(
             f"falls: year at {tolerance:.0%} risk tolerance / median, profile {context.profile}, "
             f"given no CRQC by {context.as_of}; band 10%: the 10-90 % band of the first year over "
-            "the survey range, the doubling time and the construction; broken now: classically "
-            "broken today, no quantum date applies."
+            "the survey range, the doubling time and the construction; broken: classically "
+            "broken today (its classical status), no quantum date applies."
         )
     lines.extend(context.notes)
     lines.append(

@@ -13,6 +13,9 @@ from pqtriage.formats.table.styles import VERDICT_STYLE
 from pqtriage.formats.text import MAX_CELL_CHARACTERS, cell
 from pqtriage.model.verdict import TriageResult, Verdict
 
+_FLAGS_SHOWN = 10
+"""Flags listed under the table; the rest are counted."""
+
 
 def summary_block(result: TriageResult, top: int | None = None) -> Text:
     """Counts by verdict, what is overdue, the earliest start date and a caution."""
@@ -37,7 +40,13 @@ def summary_block(result: TriageResult, top: int | None = None) -> Text:
     if summary.overdue:
         shown = ", ".join(cell(s, 60) for s in summary.overdue[:8])
         more = f" and {len(summary.overdue) - 8} more" if len(summary.overdue) > 8 else ""
-        text.append(f"Overdue (start-by date passed or broken now): {shown}{more}\n", style="red")
+        text.append(f"Overdue (start-by date passed or classically-broken): {shown}{more}\n", style="red")
+    flagged = [(item, flag) for item in (result.items if top is None else result.items[:top]) for flag in item.flags]
+    for item, flag in flagged[:_FLAGS_SHOWN]:
+        text.append(f"+ {visible(item.system.id)}: {visible(flag.text)}\n", style="yellow")
+    if len(flagged) > _FLAGS_SHOWN:
+        text.append(f"+ and {len(flagged) - _FLAGS_SHOWN} more flags (see --format markdown or json)\n",
+                    style="yellow")
     upcoming = sorted(i.start_by for i in result.items if i.start_by and i.start_by > result.as_of)
     if upcoming:
         text.append(f"Next start-by date still ahead: {upcoming[0].isoformat()}\n")
@@ -46,8 +55,9 @@ def summary_block(result: TriageResult, top: int | None = None) -> Text:
     for warning in result.inventory.warnings[:5]:
         text.append(f"warning: {cell(warning, 4 * MAX_CELL_CHARACTERS)}\n", style="yellow")
     text.append(
-        "x = years data or signatures must stay secure, y = migration years, "
-        "P(exp) = probability the CRQC arrives before x + y.\n",
+        "x+y: x = years data or signatures must stay secure, y = migration years; "
+        "P = probability the CRQC arrives before x + y. Order: verdict, then priority points "
+        "(Pts = P + years overdue + criticality + interception; docs/method.md).\n",
         style="dim",
     )
     text.append(f"Caution: {CAUTIONS[0].split(':')[0]}; {CAUTIONS[2].split('.')[0].lower()}. "

@@ -8,10 +8,10 @@ from rich.table import Table
 from rich.text import Text
 
 from pqtriage.formats.bands import probability_range, system_band
-from pqtriage.formats.labels import VERDICT_LABEL, short_replacement
+from pqtriage.formats.labels import VERDICT_LABEL, flag_short, short_replacement, system_replacement
 from pqtriage.formats.table.styles import VERDICT_STYLE
 from pqtriage.formats.table.summary import summary_block
-from pqtriage.formats.text import MAX_CELL_CHARACTERS, cell
+from pqtriage.formats.text import MAX_CELL_CHARACTERS, cell, visible
 from pqtriage.model.verdict import SystemAssessment, TriageResult
 
 _PURPOSE_SHORT = {
@@ -66,7 +66,7 @@ def _row(item: SystemAssessment, as_of: object) -> list[RenderableType]:
     weakest = item.weakest
     if weakest is None:
         algo = Text("(no uses)")
-        x = "-"
+        x = ""
         replacement = "-"
     else:
         spec = weakest.deciding or weakest.spec
@@ -74,21 +74,25 @@ def _row(item: SystemAssessment, as_of: object) -> list[RenderableType]:
         algo = Text(cell(name, MAX_CELL_CHARACTERS))
         algo.append(f" {_PURPOSE_SHORT[weakest.use.purpose.value]}", style="dim")
         x = _years(weakest.x_years)
-        replacement = short_replacement(weakest.replacement)
+        replacement = short_replacement(system_replacement(item))
     probability = _probability(item)
     start_by = _start_by(item, as_of)
     system = Text(cell(item.system.id, MAX_CELL_CHARACTERS))
     if item.system.assumed:
         system.append("*", style="bold")
+    verdict = Text(VERDICT_LABEL[item.verdict], style=VERDICT_STYLE[item.verdict])
+    for flag in dict.fromkeys(flag_short(f) for f in item.flags):
+        verdict.append("\n+ ")
+        verdict.append(visible(flag), style="yellow")
     return [
         str(item.rank),
         system,
         algo,
-        x,
-        _years(item.system.migration_years),
+        f"{x}+{_years(item.system.migration_years)}" if x else "-",
         start_by,
         probability,
-        Text(VERDICT_LABEL[item.verdict], style=VERDICT_STYLE[item.verdict]),
+        "-" if item.priority is None else f"{item.priority.points:g}",
+        verdict,
         Text(cell(replacement, MAX_CELL_CHARACTERS)),
     ]
 
@@ -108,16 +112,17 @@ def ranked_table(result: TriageResult, top: int | None = None, group: str | None
         expand=False,
         pad_edge=False,
         collapse_padding=True,
+        padding=(0, 0),
     )
     table.add_column("#", justify="right", no_wrap=True)
-    table.add_column("System", overflow="fold", min_width=19)
-    table.add_column("Weakest use", overflow="fold", min_width=12)
-    table.add_column("x", justify="right", no_wrap=True)
-    table.add_column("y", justify="right", no_wrap=True)
+    table.add_column("System", overflow="fold", min_width=12, max_width=19)
+    table.add_column("Weakest use", overflow="fold", min_width=12, max_width=18)
+    table.add_column("x+y", justify="right", no_wrap=True)
     table.add_column("Start by", no_wrap=True)
-    table.add_column("P(exp)", justify="right", no_wrap=True)
-    table.add_column("Verdict", no_wrap=True)
-    table.add_column("Replace with", overflow="fold", min_width=10)
+    table.add_column("P", justify="right", no_wrap=True)
+    table.add_column("Pts", justify="right", no_wrap=True)
+    table.add_column("Verdict", overflow="fold", min_width=18)
+    table.add_column("Replace with", overflow="fold", min_width=12)
     rows = result.items if items is None else items
     for item in rows if top is None else rows[:top]:
         table.add_row(*_row(item, result.as_of))

@@ -110,7 +110,9 @@ def test_every_name_in_the_shipped_lists_is_in_the_catalog() -> None:
         for purpose, names in (("key-establishment", client.kex), ("authentication", client.host_key),
                                ("encryption", client.ciphers), ("integrity", client.macs)):
             for name in names:
-                found = catalog.resolve(name, purpose=purpose, key_size=3072)
+                found = catalog.resolve(name, purpose=purpose)
+                if found.spec is None:  # an RSA host key or a group exchange: the size is read apart
+                    found = catalog.resolve(name, purpose=purpose, key_size=3072)
                 assert found.spec is not None, (client.name, name, found.reason)
 
 
