@@ -138,3 +138,21 @@ def test_every_milestone_says_what_it_requires() -> None:
     for policy in load_policies():
         for milestone in policy.milestones:
             assert milestone.requires, (policy.id, milestone.id)
+
+
+def test_worked_example_frameworks_decide_which_policies_judge_a_system() -> None:
+    # EO 14412 (2026), V2: a high-value asset with RSA key establishment gets 31 Dec 2030 when
+    # it follows US federal rules; the same system under the EU framework only is not judged by
+    # US dates, but by the EU roadmap ("A Coordinated Implementation Roadmap for the transition
+    # to Post-Quantum Cryptography", Jun 2025, V2: high-risk use cases by end of 2030, the rest
+    # by end of 2035 as far as feasible).
+    hva = dataclasses.replace(
+        candidate("s", uses=(RSA_2048_KEY_TRANSPORT,)), high_value_asset=True
+    )
+    us = dataclasses.replace(hva, frameworks=("us-federal",))
+    eu = dataclasses.replace(hva, frameworks=("eu",))
+    key_establishment = ("eo-14412", "key-establishment", "migrate-key-establishment", D(2030, 12, 31))
+    assert key_establishment in _found(us, "eo-14412", "eu-roadmap")
+    found_eu = _found(eu, "eo-14412", "eu-roadmap")
+    assert {row[0] for row in found_eu} == {"eu-roadmap"}
+    assert ("eu-roadmap", "medium-risk", "migrate", D(2035, 12, 31)) in found_eu
