@@ -48,3 +48,16 @@ def test_same_system_on_the_post_quantum_track_waits_for_the_vendor() -> None:
     by_id = {s.candidate.id: s for s in plan.systems}
     assert by_id["b"].track == FIX_NOW and by_id["b"].slot.start == 0
     assert by_id["e"].track == POST_QUANTUM and by_id["e"].slot.start == 4
+
+
+def test_timeline_chart_rows_are_in_priority_order() -> None:
+    import re
+
+    from pqtriage.formats.svg.plan import plan_svg
+
+    plan = prepare(DEMO, None, AS_OF, None, None, None).plan()
+    rows = re.findall(r'<g class="system" data-system="([^"]+)"', plan_svg(plan))
+    expected = [s.candidate.id for s in sorted(plan.systems, key=lambda s: s.candidate.priority_rank)]
+    assert rows == expected
+    # Planned start order differs (rank 6 waits for its dependencies), so the check can fail.
+    assert rows != [s.candidate.id for s in plan.systems]
