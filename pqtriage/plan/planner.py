@@ -35,6 +35,13 @@ DEFAULT_VENDOR_DELAY_QUARTERS: Mapping[str, int] = MappingProxyType(
     {"available": 0, "announced": 4, "unknown": 4}
 )
 """Quarters the earliest start waits for vendor post-quantum support, per readiness."""
+FIX_NOW_VERDICTS: tuple[str, ...] = ("classically-broken",)
+"""Verdicts whose fix needs no post-quantum product (RC4, DES, 3DES, SHA-1, MD5, short
+RSA or DH: broken or disallowed against classical attacks today). Such a system is on the
+"fix now" track: its earliest start is the first plan quarter whatever the vendor readiness,
+because a classical replacement (AES-GCM, SHA-256, a 3072-bit group) is available today."""
+FIX_NOW = "fix now"
+POST_QUANTUM = "post-quantum"
 DEFAULT_PERSON_WEEKS_PER_YEAR = 52.0
 """Effort assumed when none is given: one person full time for the migration's duration."""
 
@@ -107,6 +114,13 @@ class SystemPlan:
     """Every missed date with the fixes that would help."""
     on_critical_path: bool
     """True when the system is on the plan's critical path."""
+    track: str = POST_QUANTUM
+    """FIX_NOW for a classically broken system (starts at once), else POST_QUANTUM."""
+
+
+def plan_track(candidate: PlanCandidate) -> str:
+    """FIX_NOW when the candidate's verdict is in FIX_NOW_VERDICTS, else POST_QUANTUM."""
+    return FIX_NOW if candidate.verdict in FIX_NOW_VERDICTS else POST_QUANTUM
 
 
 def plan_status(system: SystemPlan) -> str:
@@ -212,7 +226,8 @@ def build_plan(
             Task(
                 id=item.id,
                 duration=duration,
-                release=settings.vendor_delay_quarters.get(readiness, 0),
+                release=0 if plan_track(item) == FIX_NOW
+                else settings.vendor_delay_quarters.get(readiness, 0),
                 depends_on=tuple(item.depends_on),
                 priority_rank=item.priority_rank,
                 effort_person_weeks=effort,
@@ -295,4 +310,5 @@ def _system_plan(
         deadline_slack_days=min((r.slack_days for r in results), default=None),
         misses=tuple(misses),
         on_critical_path=on_path,
+        track=plan_track(item),
     )

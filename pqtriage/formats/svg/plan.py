@@ -193,7 +193,9 @@ def plan_svg(plan: Plan, title: str = "Post-quantum migration timeline") -> str:
         f'<line class="plan-start" x1="{start_x}" x2="{start_x}" y1="{TOP - 4}" y2="{bottom}" '
         f'stroke="#0277bd" stroke-dasharray="3,2"><title>plan start {plan.start}</title></line>'
     )
-    for index, system in enumerate(plan.systems):
+    # Rows in priority order (rank 1 on top), not by planned start.
+    ordered = sorted(plan.systems, key=lambda s: (s.candidate.priority_rank, s.candidate.id))
+    for index, system in enumerate(ordered):
         out += _row(scale, system, index)
     out += _legend(bottom + 20)
     out.append("</svg>")
