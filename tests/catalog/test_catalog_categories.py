@@ -71,7 +71,7 @@ def test_hash_categories_ir8547_table7(catalog: Catalog, name: str, cats: dict) 
 )
 def test_hash_strength_is_half_the_output(catalog: Catalog, name: str) -> None:
     # Output length from hashlib (a reference implementation); collision = half of it,
-    # preimage = all of it (NIST SP 800-107 Rev. 1, from memory: published-figures.md marks it M).
+    # preimage = all of it (NIST SP 800-107 Rev. 1; M: a value from memory).
     hashlib_name = name.lower().replace("sha3-", "sha3_").replace("sha-", "sha")
     output_bits = hashlib.new(hashlib_name).digest_size * 8
     spec = catalog.resolve(name).spec
@@ -120,8 +120,7 @@ def test_tls_signature_schemes(catalog: Catalog, name: str, code: str) -> None:
     ],
 )
 def test_hybrids(catalog: Catalog, name: str, parts: list[str]) -> None:
-    # published-figures.md §7: RFC 9941, draft-ietf-tls-ecdhe-mlkem,
-    # draft-ietf-sshm-mlkem-hybrid-kex.
+    # RFC 9941, draft-ietf-tls-ecdhe-mlkem (a draft), draft-ietf-sshm-mlkem-hybrid-kex (a draft), V.
     spec = catalog.resolve(name).spec
     assert spec.hybrid and spec.quantum_attack == "none"
     assert [c.spec.name for c in spec.components] == parts

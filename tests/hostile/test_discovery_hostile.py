@@ -178,7 +178,11 @@ def test_scan_skips_a_symlink_loop_with_a_note(tmp_path: Path, scan_startup: flo
     assert outcome.cpu_seconds - scan_startup < TIME_BUDGET
 
 
-@pytest.mark.skipif(os.geteuid() == 0, reason="root reads files whatever their mode")
+ROOT_READS_ANYTHING = "root reads files whatever their mode (CI runs this as an unprivileged user)"
+
+
+@pytest.mark.unprivileged
+@pytest.mark.skipif(os.geteuid() == 0, reason=ROOT_READS_ANYTHING)
 def test_scan_reports_an_unreadable_file(tmp_path: Path) -> None:
     folder = good_folder(tmp_path)
     secret = m.write(folder / "secret.pem", m.private_pem(KEY))

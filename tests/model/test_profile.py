@@ -27,8 +27,8 @@ def test_crqc_year_only_file_is_a_valid_profile() -> None:
 
 
 def test_shipped_survey_profiles_match_published_ranges() -> None:
-    # Quantum Threat Timeline Report 2025 (Global Risk Institute, published 9 March 2026), the
-    # reference sheet's sections 5 and 8.4 (V2): 5-15%, 28-49%, 51-70%, 69-86%, 81-93%.
+    # Quantum Threat Timeline Report 2025 (Global Risk Institute, published 9 March 2026),
+    # both ends of its ranges (V2): 5-15%, 28-49%, 51-70%, 69-86%, 81-93%.
     upper = load_profile("survey-2025-upper")
     lower = load_profile("survey-2025-lower")
     assert [p for _, p in upper.points] == [0.15, 0.49, 0.70, 0.86, 0.93]

@@ -1,7 +1,8 @@
 """Deadlines per the published tables, each check naming its source.
 
-Check values come from /work/shared/reference/published-figures.md section 6 (and 2 for
-IR 8547): V = checked against the primary text, V2 = several secondary sources.
+Check values come from the official documents named beside each check (NIST IR 8547 ipd, NSM-10,
+CNSA 2.0, UK NCSC, EU roadmap, ASD ISM, ITSM.40.001, BSI TR-02102-1): V = checked against the
+primary text, V2 = several secondary sources.
 "After 2030" / "by 2030" are encoded as the last allowed day, 2030-12-31.
 """
 
@@ -94,7 +95,7 @@ CNSA_TABLE = {
 
 @pytest.mark.parametrize("category", sorted(CNSA_TABLE))
 def test_cnsa2_dates_per_category(category: str) -> None:
-    # CNSA 2.0 (NSA, 2022; FAQ 2024), per published-figures.md section 6 (V2).
+    # CNSA 2.0 (NSA, Commercial National Security Algorithm Suite 2.0, 2022; FAQ 2024), V2.
     prefer, exclusive = CNSA_TABLE[category]
     system = candidate("s", category=category, uses=(ECDSA_P256,))
     assert dates(system, "cnsa2") == {("support-and-prefer", prefer), ("exclusive-use", exclusive)}
@@ -127,7 +128,7 @@ def test_cnsa2_without_a_category_is_stated_not_skipped() -> None:
     assert any("policy_category" in reason for reason in found.undetermined)
 
 
-# --- National timelines (published-figures.md section 6) ----------------------------------
+# --- National timelines (each document named beside its check) ----------------------------
 
 
 def test_uk_ncsc_2031_for_high_priority_2035_for_all() -> None:

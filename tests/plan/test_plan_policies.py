@@ -17,7 +17,7 @@ from pqtriage.plan.policies import (
 
 ISSUE_IDS = {"nist-ir-8547", "cnsa2", "uk-ncsc", "eu-roadmap", "au-ism", "ca-roadmap", "bsi"}
 
-# Flags as the verified reference gives them (section 6 and the 2025-2026 additions) (V primary text, V2 secondary).
+# Flags per document (V checked against the primary text, V2 agreed by several secondary sources).
 STATUS = {
     "nist-ir-8547": "V",
     "nsm-10": "V",

@@ -16,6 +16,7 @@ import datetime as dt
 import io
 import itertools
 import json
+import math
 import re
 from collections import Counter
 from collections.abc import Callable
@@ -34,8 +35,8 @@ from pqtriage.formats.sarif.triage import SarifFormat
 from pqtriage.formats.table.triage import terminal_view
 from pqtriage.model.inventory import Criticality, CryptoUse, Exposure, Inventory, Purpose, System
 from pqtriage.model.mosca import evaluate_use
-from pqtriage.model.triage import rank_key, triage
-from pqtriage.model.verdict import TriageResult, Verdict
+from pqtriage.model.triage import triage
+from pqtriage.model.verdict import SystemAssessment, TriageResult, Verdict
 from pqtriage.pipeline import arrival_model_for
 from pqtriage.sources.profile_file import load_profile
 from tests.properties.strategies import inventories
@@ -166,8 +167,40 @@ def test_ranking_is_a_deterministic_total_order(inventory: Inventory, random: ob
     second = run(Inventory(organization=inventory.organization, systems=tuple(shuffled)))
     assert [i.system.id for i in first.items] == [i.system.id for i in second.items]
     assert [i.rank for i in first.items] == list(range(1, len(first.items) + 1))
-    keys = [rank_key(i) for i in first.items]
-    assert all(a < b for a, b in itertools.pairwise(keys)), "strictly increasing: no ties, a total order"
+    for above, below in itertools.pairwise(first.items):
+        assert _ranked_above(above, below), (above.system.id, below.system.id)
+
+
+# The documented ranking (docs/method.md, "Ranking"), written out here rather than taken from the
+# tool's sort key: verdicts most urgent first, then more priority points, then the higher
+# probability in whole percent, then the shorter margin to one decimal, then criticality and
+# exposure to interception, then the id. Checked pairwise on adjacent rows.
+VERDICT_ORDER = ["classically-broken", "exposed", "unassessed", "within-margin", "quantum-resistant"]
+CRITICALITY_RANK = ["critical", "high", "medium", "low"]
+INTERCEPTION_RANK = ["internet", "partner", "internal", "isolated"]
+
+
+def _ranked_above(a: SystemAssessment, b: SystemAssessment) -> bool:
+    def facets(item: SystemAssessment) -> list:
+        priority = item.priority
+        p = item.exposure_probability
+        margin = item.margin_years
+        finite = margin is not None and math.isfinite(margin)
+        shown_margin = float(f"{margin:.1f}") if finite else None
+        return [
+            VERDICT_ORDER.index(item.verdict.value),
+            -(priority.points if priority is not None else 0.0),
+            -(int(p * 100 + 0.5) if p is not None else -1),
+            shown_margin if shown_margin is not None else float("inf"),
+            CRITICALITY_RANK.index(item.system.criticality.value),
+            INTERCEPTION_RANK.index(item.system.exposure.value),
+            item.system.id,
+        ]
+
+    for x, y in zip(facets(a), facets(b), strict=True):
+        if x != y:
+            return x < y
+    return False  # equal on every facet: no total order
 
 
 SHOR = ("RSA-2048", "RSA-3072", "ECDSA P-256", "X25519", "ECDH P-384")

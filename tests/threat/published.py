@@ -1,6 +1,6 @@
 """Published check values for the threat model, each with its source.
 
-Flags as in the shared reference sheet: V checked against the primary text, V2 agreed by
+Flags: V checked against the primary text, V2 agreed by
 several secondary sources, M from memory.
 """
 
@@ -84,7 +84,7 @@ GE2019_DH_TABLE = {1024: (9.2e6, 0.4), 2048: (20e6, 1.2), 3072: (29e6, 2.0), 409
 # Full-length exponent rows (same paper).
 GE2019_DH_FULL_TABLE = {2048: (26e6, 11), 3072: (41e6, 24), 4096: (55e6, 43)}
 
-# Elliptic curves after 2023 (reference sheet section 8.3).
+# Elliptic curves after 2023 (the papers named below).
 # "Securing Elliptic Curve Cryptocurrencies against Quantum Vulnerabilities: Resource Estimates
 # and Mitigations" (arXiv:2603.28846, March 2026) - V2: 256-bit ECDLP under 1200 logical qubits
 # and under 90 M Toffoli, or under 1450 and under 70 M; circuits withheld; "minutes" on under

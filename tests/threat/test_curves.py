@@ -1,7 +1,7 @@
 """Elliptic curves after 2023: the 2026 figures within their stated bounds, how each was
 checked, the default, and 2306.08585's amortised per-key figure never taken as one run.
 
-Check values: tests/threat/published.py, from the reference sheet's section 8.3 (arXiv:2603.28846
+Check values: tests/threat/published.py, from the papers themselves (arXiv:2603.28846
 V2, arXiv:2606.02235 V abstract, IACR ePrint 2026/280 V2, arXiv:2306.08585 V abstract).
 """
 

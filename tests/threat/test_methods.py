@@ -13,7 +13,7 @@ from pqtriage.threat.methods import load_method_data, parse_method_data
 
 REQUIRED_IDS = {
     "1905.09749", "2505.15917", "1611.07995", "1706.06752", "2306.08585",
-    # Curves after 2023 (reference sheet section 8.3): arXiv:2603.28846 (March 2026),
+    # Curves after 2023: arXiv:2603.28846 (March 2026),
     # arXiv:2606.02235 (June 2026), IACR ePrint 2026/280 (EUROCRYPT 2026).
     "2603.28846", "2606.02235", "2026/280",
 }

@@ -33,6 +33,14 @@ def test_1905_09749_formulas_at_2048() -> None:
     assert r.measurement_depth == pytest.approx(500 * 2048**2 + 2048**2 * 11)
 
 
+def test_1905_09749_toffoli_formula_at_1024() -> None:
+    # arXiv:1905.09749 Table 1 (V), at a second size so a coefficient cannot be traded against
+    # the other: 0.3 n^3 + 0.0005 n^3 lg n at n = 1024 (lg 1024 = 10) is, by hand,
+    # 1,073,741,824 x (0.3 + 0.005) = 327,491,256.32.
+    r = _logical("1905.09749", "factoring", 1024)
+    assert r.toffoli_count == pytest.approx(327_491_256.32, rel=1e-12)
+
+
 def test_1706_06752_qubit_formula_and_p256_row() -> None:
     # arXiv:1706.06752: at most 9n + 2 ceil(log2 n) + 10 qubits (V); P-256 2,330 qubits and
     # about 1.26e11 Toffoli (V2).

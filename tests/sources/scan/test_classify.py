@@ -2,7 +2,7 @@
 
 Check values come from outside pqtriage: the cryptography library's own key_size and curve
 objects, the NIST curve names of FIPS 186-5 (P-256 = secp256r1 ...), the ML-DSA OIDs of
-RFC 9881 and the SLH-DSA OIDs of RFC 9909 (both as listed in published-figures.md section 7).
+RFC 9881 and the SLH-DSA OIDs of RFC 9909 (V).
 """
 
 from __future__ import annotations

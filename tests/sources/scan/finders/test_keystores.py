@@ -7,6 +7,7 @@ secp384r1, -genseckey AES 128) and keytool's own listing of the store (``keytool
 
 from __future__ import annotations
 
+import os
 from pathlib import Path
 
 import pytest
@@ -109,7 +110,9 @@ def test_pyjks_store_round_trip(tmp_path: Path) -> None:
 def test_bks_made_by_keytool_with_bouncy_castle(tmp_path: Path) -> None:
     """A BKS store written by keytool through the Bouncy Castle provider (libbcprov-java)."""
     keytool = need("keytool", "default-jdk-headless")
-    provider = Path("/usr/share/java/bcprov.jar")
+    # Debian's libbcprov-java installs /usr/share/java/bcprov.jar (a link to bcprov-<version>.jar);
+    # BCPROV_JAR names another copy of the same jar.
+    provider = Path(os.environ.get("BCPROV_JAR", "/usr/share/java/bcprov.jar"))
     if not provider.exists():
         pytest.skip("Bouncy Castle is absent (apt-get install libbcprov-java)")
     store = tmp_path / "app.bks"
