@@ -29,6 +29,7 @@ def candidates_from_triage(result: TriageResult) -> tuple[PlanCandidate, ...]:
                 primitive=spec.primitive if spec else None,
                 assessed=spec is not None,
                 reason=None if spec is not None else use.reason,
+                not_after=use.use.not_after,
             ))
         candidates.append(PlanCandidate(
             id=system.id,
@@ -45,5 +46,12 @@ def candidates_from_triage(result: TriageResult) -> tuple[PlanCandidate, ...]:
             criticality=system.criticality.value,
             place=Place(system.source.file, system.source.line, system.source.column)
             if system.source is not None else None,
+            frameworks=result.inventory.frameworks_of(system),
+            impact=system.impact.value if system.impact is not None else None,
+            high_value_asset=system.high_value_asset,
+            data_classification=system.data_classification.label
+            if system.data_classification is not None else None,
+            protocol=system.protocol,
+            protocol_version=system.protocol_version,
         ))
     return tuple(candidates)

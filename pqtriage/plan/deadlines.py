@@ -14,7 +14,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 
 from pqtriage.plan.inputs import PlanCandidate, PlanUse
-from pqtriage.plan.policies import Milestone, Policy
+from pqtriage.plan.policies import Milestone, Policy, Scope
 
 SIGNATURE_PRIMITIVES = frozenset({"signature"})
 KEY_ESTABLISHMENT_PRIMITIVES = frozenset({"kem", "key-agreement", "public-key-encryption"})
@@ -38,6 +38,17 @@ class Deadline:
     """Document, section and wording it comes from."""
     note: str = ""
     """How the text was read into this row."""
+    requires: str = "migrate"
+    """What it asks for (migrate-key-establishment, stop-using, support ...)."""
+    status: str = "final"
+    """Standing of its source: final, draft or announced (labelled in every output)."""
+    checkpoint: bool = False
+    """True for a readiness checkpoint (support, prefer): met, not met or unknown, never missed."""
+
+    @property
+    def label(self) -> str:
+        """Policy id with the standing of a draft or announced source: "nist-ir-8547 (draft)"."""
+        return self.policy if self.status == "final" else f"{self.policy} ({self.status})"
 
 
 @dataclass(frozen=True)
@@ -101,10 +112,40 @@ def _name_matches(algorithm: str, prefixes: Sequence[str]) -> bool:
     return False
 
 
+def _in(value: str | None, allowed: Sequence[str]) -> bool:
+    return value is not None and value.strip().lower() in {a.lower() for a in allowed}
+
+
+def governs(policy: Policy, system: PlanCandidate) -> bool:
+    """True when the policy may judge the system by the frameworks it names.
+
+    A system naming no framework (nor its inventory) is judged by every selected policy;
+    one naming frameworks only by policies that govern one of them (a policy listing no
+    framework governs every system).
+    """
+    if not system.frameworks or not policy.frameworks:
+        return True
+    return bool(set(system.frameworks) & set(policy.frameworks))
+
+
 def milestone_applies(milestone: Milestone, use: PlanUse, system: PlanCandidate) -> bool:
     """True when every key of the milestone's scope matches the use and its system."""
-    scope = milestone.scope
     if milestone.applies_to != "systems":
+        return False
+    return scope_matches(milestone.scope, use, system)
+
+
+def scope_matches(scope: Scope, use: PlanUse, system: PlanCandidate) -> bool:
+    """True when every key of a scope matches the use and its system (None matches anything)."""
+    if scope.impacts is not None and not _in(system.impact, scope.impacts):
+        return False
+    if scope.high_value_asset is not None and system.high_value_asset is not scope.high_value_asset:
+        return False
+    if scope.classifications is not None and not _in(system.data_classification, scope.classifications):
+        return False
+    if scope.protocols is not None and not _in(system.protocol, scope.protocols):
+        return False
+    if scope.any_of is not None and not any(scope_matches(s, use, system) for s in scope.any_of):
         return False
     if scope.quantum_attacks is not None and use.quantum_attack not in scope.quantum_attacks:
         return False
@@ -133,6 +174,9 @@ def _deadline(policy: Policy, milestone: Milestone) -> Deadline:
         date=milestone.date,
         source=milestone.source,
         note=milestone.note,
+        requires=milestone.requires,
+        status=milestone.status,
+        checkpoint=milestone.checkpoint,
     )
 
 
@@ -153,6 +197,7 @@ def use_deadlines(use: PlanUse, system: PlanCandidate, policies: Sequence[Policy
     found = [
         _deadline(policy, milestone)
         for policy in policies
+        if governs(policy, system)
         for milestone in policy.milestones
         if milestone_applies(milestone, use, system)
     ]
@@ -176,7 +221,8 @@ def system_deadlines(system: PlanCandidate, policies: Sequence[Policy]) -> Syste
             m.scope.policy_categories is not None and m.applies_to == "systems"
             for m in policy.milestones
         )
-        if needs_category and system.policy_category is None and has_quantum_vulnerable:
+        if (needs_category and system.policy_category is None and has_quantum_vulnerable
+                and governs(policy, system)):
             undetermined.append(
                 f"{policy.id}: the system has no policy_category, so its {policy.id} "
                 "deadlines could not be determined"

@@ -44,6 +44,8 @@ class PlanUse:
     """False when the catalog could not resolve the algorithm with all its parameters."""
     reason: str | None = None
     """Why the use is unassessed (unknown name, missing key size ...), shown with the plan."""
+    not_after: datetime.date | None = None
+    """End of validity of the certificate or key the use rests on, if known."""
 
 
 @dataclass(frozen=True)
@@ -77,6 +79,18 @@ class PlanCandidate:
     high-priority for policy milestones scoped to high-priority systems."""
     place: Place | None = None
     """Where the system is written in the inventory, for messages about it."""
+    frameworks: tuple[str, ...] = ()
+    """Policy frameworks that govern it (its own list, else the inventory's); empty: not stated."""
+    impact: str | None = None
+    """FIPS 199 impact level (low, moderate, high), if given."""
+    high_value_asset: bool | None = None
+    """High-value asset (OMB M-19-03); None when not stated."""
+    data_classification: str | None = None
+    """Data classification label, if given."""
+    protocol: str | None = None
+    """Main protocol (tls, ssh ...), if given."""
+    protocol_version: str | None = None
+    """Version of the main protocol, if given."""
 
     @property
     def high_priority(self) -> bool:

@@ -36,17 +36,39 @@ MILESTONE_KINDS: tuple[str, ...] = (
     "not-recommended-beyond",
     "plan-by",
     "acquisitions-from",
+    "support",
 )
 """Every milestone kind the data may use."""
+CHECKPOINT_KINDS: tuple[str, ...] = ("support-and-prefer", "support")
+"""Readiness checkpoints (met, not met, unknown): never counted as missed deadlines."""
+REQUIREMENTS: tuple[str, ...] = (
+    "migrate",
+    "migrate-key-establishment",
+    "migrate-signatures",
+    "stop-using",
+    "support",
+    "support-and-prefer",
+    "prefer",
+    "procure-only-compliant",
+    "plan",
+)
+"""What a milestone asks for."""
+SOURCE_STATUSES: tuple[str, ...] = ("final", "draft", "announced")
+"""Standing of the source document: in force, a draft for comment, announced or proposed."""
 PURPOSE_CLASSES: tuple[str, ...] = ("signature", "key-establishment")
 """Purpose classes of NIST IR 8547 (Table 2 signatures, Table 4 key establishment)."""
-STATUSES: tuple[str, ...] = ("V", "V2", "M")
+FLAGS: tuple[str, ...] = ("V", "V2", "M")
 """V checked against the primary text, V2 several secondary sources, M from memory."""
 DEFAULT_POLICY_IDS: tuple[str, ...] = ("nist-ir-8547",)
 """Policies used when neither the command line nor the inventory names any."""
 
-_POLICY_KEYS = {"id", "title", "publisher", "published", "source", "status", "note", "milestones"}
-_MILESTONE_KEYS = {"id", "kind", "date", "applies_to", "scope", "source", "note"}
+_POLICY_KEYS = {
+    "id", "title", "publisher", "published", "source", "flag", "status", "frameworks", "note",
+    "milestones",
+}
+_MILESTONE_KEYS = {
+    "id", "kind", "requires", "date", "applies_to", "scope", "status", "source", "note",
+}
 _SCOPE_KEYS = {
     "quantum_attack",
     "purposes",
@@ -55,7 +77,14 @@ _SCOPE_KEYS = {
     "policy_categories",
     "priority",
     "algorithms",
+    "impact",
+    "high_value_asset",
+    "classification",
+    "protocol",
+    "any_of",
 }
+IMPACT_LEVELS: tuple[str, ...] = ("low", "moderate", "high")
+"""FIPS 199 impact levels (FIPS PUB 199, 2004, section 3)."""
 
 
 @dataclass(frozen=True)
@@ -76,6 +105,16 @@ class Scope:
     """True when only high-priority (high-risk) systems are in scope."""
     algorithms: tuple[str, ...] | None = None
     """Catalog display names in scope, matched as a prefix ending at a separator."""
+    impacts: tuple[str, ...] | None = None
+    """FIPS 199 impact levels in scope; a system without one does not match."""
+    high_value_asset: bool | None = None
+    """Required high-value-asset designation (OMB M-19-03); an unstated one does not match."""
+    classifications: tuple[str, ...] | None = None
+    """Data classification labels in scope (compared without regard to case)."""
+    protocols: tuple[str, ...] | None = None
+    """Main protocols in scope (tls, ssh ...; compared without regard to case)."""
+    any_of: tuple[Scope, ...] | None = None
+    """Sub-scopes of which at least one must match (an "or")."""
 
 
 @dataclass(frozen=True)
@@ -96,6 +135,15 @@ class Milestone:
     """systems (a finish-by date per system) or organisation (a whole-organisation step)."""
     note: str = ""
     """How the text was read into this row."""
+    requires: str = "migrate"
+    """What it asks for, one of :data:`REQUIREMENTS`."""
+    status: str = "final"
+    """Standing of its source: final, draft or announced (:data:`SOURCE_STATUSES`)."""
+
+    @property
+    def checkpoint(self) -> bool:
+        """True for a readiness checkpoint (support, prefer), False for a deadline."""
+        return self.kind in CHECKPOINT_KINDS
 
 
 @dataclass(frozen=True)
@@ -112,12 +160,16 @@ class Policy:
     """Publication date as the document gives it (YYYY-MM)."""
     source: str
     """Document title and identifier."""
-    status: str
+    flag: str
     """How the figures were checked: V, V2 or M."""
     milestones: tuple[Milestone, ...]
     """Dated steps, in file order."""
     note: str = ""
     """How the policy was read."""
+    status: str = "final"
+    """Standing of the document: final, draft or announced."""
+    frameworks: tuple[str, ...] = ()
+    """Inventory framework ids it governs; empty: it applies whatever a system names."""
 
 
 def _fail(row: str, message: str, path: str) -> CatalogError:
@@ -165,6 +217,24 @@ def _scope(data: Any, row: str, path: str) -> Scope:
     priority = data.get("priority")
     if priority not in (None, "high"):
         raise _fail(row, "'priority' must be 'high' when given", path)
+    texts = {
+        key: _strings(data[key], row, key, path) if key in data else None
+        for key in ("impact", "classification", "protocol")
+    }
+    bad = [v for v in texts["impact"] or () if v not in IMPACT_LEVELS]
+    if bad:
+        raise _fail(row, f"'impact' has unknown value(s) {bad}; allowed: {list(IMPACT_LEVELS)}", path)
+    hva = data.get("high_value_asset")
+    if hva is not None and not isinstance(hva, bool):
+        raise _fail(row, "'high_value_asset' must be true or false", path)
+    any_of = data.get("any_of")
+    alternatives = None
+    if any_of is not None:
+        if not isinstance(any_of, list) or not any_of:
+            raise _fail(row, "'any_of' must be a non-empty list of scopes", path)
+        alternatives = tuple(
+            _scope(item, f"{row} any_of {n}", path) for n, item in enumerate(any_of, start=1)
+        )
     return Scope(
         quantum_attacks=lists["quantum_attack"],
         purposes=lists["purposes"],
@@ -173,6 +243,11 @@ def _scope(data: Any, row: str, path: str) -> Scope:
         policy_categories=lists["policy_categories"],
         high_priority_only=priority == "high",
         algorithms=lists["algorithms"],
+        impacts=texts["impact"],
+        high_value_asset=hva,
+        classifications=texts["classification"],
+        protocols=texts["protocol"],
+        any_of=alternatives,
     )
 
 
@@ -185,7 +260,15 @@ def _text(data: Mapping[str, Any], key: str, row: str, path: str, required: bool
     return " ".join(value.split())
 
 
-def _milestone(data: Any, row: str, path: str) -> Milestone:
+def _choice(data: Mapping[str, Any], key: str, allowed: Sequence[str], default: str | None,
+            row: str, path: str) -> str:
+    value = data.get(key, default)
+    if value not in allowed:
+        raise _fail(row, f"'{key}' must be one of {list(allowed)}", path)
+    return str(value)
+
+
+def _milestone(data: Any, row: str, path: str, policy_status: str) -> Milestone:
     if not isinstance(data, dict):
         raise _fail(row, "must be a mapping", path)
     _check_keys(data, _MILESTONE_KEYS, row, path)
@@ -211,6 +294,8 @@ def _milestone(data: Any, row: str, path: str) -> Milestone:
         scope=_scope(data.get("scope"), row, path),
         applies_to=applies_to,
         note=_text(data, "note", row, path, required=False),
+        requires=_choice(data, "requires", REQUIREMENTS, None, row, path),
+        status=_choice(data, "status", SOURCE_STATUSES, policy_status, row, path),
     )
 
 
@@ -231,14 +316,16 @@ def parse_policies(document: Any, path: str) -> tuple[Policy, ...]:
         if isinstance(data.get("id"), str):
             row = f"policy '{data['id']}'"
         _check_keys(data, _POLICY_KEYS, row, path)
-        status = _text(data, "status", row, path)
-        if status not in STATUSES:
-            raise _fail(row, f"'status' must be one of {list(STATUSES)}", path)
+        flag = _choice(data, "flag", FLAGS, None, row, path)
+        status = _choice(data, "status", SOURCE_STATUSES, None, row, path)
+        frameworks = (
+            _strings(data["frameworks"], row, "frameworks", path) if "frameworks" in data else ()
+        )
         rows = data.get("milestones")
         if not isinstance(rows, list) or not rows:
             raise _fail(row, "needs a non-empty 'milestones' list", path)
         milestones = tuple(
-            _milestone(item, f"{row} milestone {number}", path)
+            _milestone(item, f"{row} milestone {number}", path, status)
             for number, item in enumerate(rows, start=1)
         )
         ids = [m.id for m in milestones]
@@ -251,9 +338,11 @@ def parse_policies(document: Any, path: str) -> tuple[Policy, ...]:
                 publisher=_text(data, "publisher", row, path),
                 published=_text(data, "published", row, path),
                 source=_text(data, "source", row, path),
-                status=status,
+                flag=flag,
                 milestones=milestones,
                 note=_text(data, "note", row, path, required=False),
+                status=status,
+                frameworks=tuple(f.lower() for f in frameworks),
             )
         )
     ids = [p.id for p in policies]

@@ -181,16 +181,19 @@ def test_australia_ism_not_approved_beyond_2030(use: PlanUse, expected: bool) ->
     assert (("not-approved-beyond", D(2030, 12, 31)) in found) is expected
 
 
-def test_bsi_classical_key_agreement_until_2031_not_signatures() -> None:
+def test_bsi_classical_key_agreement_until_2031_signatures_until_2035() -> None:
     # BSI TR-02102-1 (2026-01), V2: classical-only key agreement recommended until end of 2031;
-    # very high protection needs by end of 2030; no signature date given.
+    # very high protection needs by end of 2030; classical-only signatures recommended only until
+    # end of 2035 (the 2026-01 addition).
     assert dates(candidate("s", uses=(ECDH_P256,)), "bsi") == {
         ("not-recommended-beyond", D(2031, 12, 31))
     }
     assert ("not-recommended-beyond", D(2030, 12, 31)) in dates(
         candidate("s", uses=(ECDH_P256,), criticality="critical"), "bsi"
     )
-    assert dates(candidate("s", uses=(ECDSA_P256,)), "bsi") == set()
+    assert dates(candidate("s", uses=(ECDSA_P256,)), "bsi") == {
+        ("not-recommended-beyond", D(2035, 12, 31))
+    }
 
 
 def test_nsm10_mitigate_by_2035() -> None:

@@ -65,6 +65,9 @@ def test_json_items_carry_the_fields_the_issue_names() -> None:
         "date": "2030-12-31",
         "source": "NIST IR 8547 ipd (2024), Table 2: 112-bit signatures deprecated after 2030",
         "note": None,
+        "requires": "stop-using",
+        "source_status": "draft",
+        "checkpoint": False,
         "met": True,
         "slack_days": 1005,
     }
@@ -123,13 +126,15 @@ def test_terminal_view_by_year_exact() -> None:
             "Migration plan from 2027-04-01 (made 2027-02-15); capacity 1 migration in parallel; "
             "policies "
         ),
-        "nist-ir-8547",
+        "nist-ir-8547 (draft)",
         " " * 100,
         " Period  System        Rank  Window           Start by    Earliest deadline   Slack (d)  Status     ",
         " " + "─" * 98 + " ",
         " 2027    pki              1  2027-Q2–2028-Q1  2027-06-30  2030-12-31               1005  on time    ",
         "         Root CA" + " " * 42 + "deprecated" + " " * 32,
-        " " * 58 + "(nist-ir-8547)" + " " * 28,
+        # NIST IR 8547 is an initial public draft: labelled as such.
+        " " * 58 + "(nist-ir-8547" + " " * 29,
+        " " * 58 + "(draft))" + " " * 34,
         " " * 100,
         " " * 22,
         " System   2027 … 2035 ",

@@ -17,7 +17,7 @@ from pqtriage.plan.policies import (
 
 ISSUE_IDS = {"nist-ir-8547", "cnsa2", "uk-ncsc", "eu-roadmap", "au-ism", "ca-roadmap", "bsi"}
 
-# Flags as published-figures.md section 6 gives them (V primary text, V2 secondary).
+# Flags as the verified reference gives them (section 6 and the 2025-2026 additions) (V primary text, V2 secondary).
 STATUS = {
     "nist-ir-8547": "V",
     "nsm-10": "V",
@@ -27,13 +27,17 @@ STATUS = {
     "au-ism": "V",
     "ca-roadmap": "V",
     "bsi": "V2",
+    "eo-14412": "V2",
+    "omb-m-26-15": "V2",
+    "eo-14306": "V2",
+    "anssi": "V2",
 }
 
 
 def test_every_policy_of_the_issue_is_shipped_with_its_status() -> None:
     policies = {p.id: p for p in load_policies()}
     assert ISSUE_IDS <= set(policies)
-    assert {i: p.status for i, p in policies.items()} == STATUS
+    assert {i: p.flag for i, p in policies.items()} == STATUS
 
 
 def test_every_row_names_its_source() -> None:
@@ -52,9 +56,10 @@ def _document() -> dict[str, Any]:
                 "publisher": "P",
                 "published": "2025-01",
                 "source": "Doc 1",
-                "status": "V",
+                "flag": "V", "status": "final",
                 "milestones": [
-                    {"id": "m1", "kind": "migrate-by", "date": "2030-12-31", "source": "Doc 1 s.2"}
+                    {"id": "m1", "kind": "migrate-by", "requires": "migrate", "date": "2030-12-31",
+                     "source": "Doc 1 s.2"}
                 ],
             }
         ]

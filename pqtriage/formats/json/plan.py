@@ -26,6 +26,9 @@ def _deadline(deadline: Deadline) -> dict[str, Any]:
         "date": deadline.date.isoformat(),
         "source": deadline.source,
         "note": deadline.note or None,
+        "requires": deadline.requires,
+        "source_status": deadline.status,
+        "checkpoint": deadline.checkpoint,
     }
 
 
@@ -107,7 +110,9 @@ def plan_to_json(plan: Plan) -> dict[str, Any]:
                 "publisher": p.publisher,
                 "published": p.published,
                 "source": p.source,
-                "status": p.status,
+                "flag": p.flag,
+                "source_status": p.status,
+                "frameworks": list(p.frameworks),
             }
             for p in plan.policies
         ],

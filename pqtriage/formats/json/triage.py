@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import json
 import math
+import re
 import secrets
 from typing import Any
 
@@ -310,9 +311,9 @@ def _system_text(item: SystemAssessment, token: str) -> str:
             compact.append(json.dumps(use[key], ensure_ascii=False))
             use[key] = f"{token}:{len(compact) - 1}"
     text = "    " + json.dumps(data, indent=2, ensure_ascii=False).replace("\n", "\n    ")
-    for number, piece in enumerate(compact):
-        text = text.replace(f'"{token}:{number}"', piece, 1)
-    return text
+    # One pass over the text (a replace per piece rescans it: quadratic in a system's uses).
+    marker = re.compile(f'"{token}:([0-9]+)"')
+    return marker.sub(lambda found: compact[int(found.group(1))], text)
 
 
 class JsonFormat(ResultFormat):

@@ -19,7 +19,7 @@ def _row(plan: Plan, system: SystemPlan) -> str:
     item = system.candidate
     earliest = system.deadlines.earliest
     deadline = (
-        f"{earliest.date} ({md_escape(earliest.policy)} {md_escape(earliest.kind)})"
+        f"{earliest.date} ({md_escape(earliest.label)} {md_escape(earliest.kind)})"
         if earliest
         else "none"
     )
@@ -53,7 +53,8 @@ def plan_section(plan: Plan, chart_name: str | None = None, heading_level: int =
     lines.append(
         f"Plan made on {plan.as_of}, starting {plan.start}, in calendar quarters; "
         f"capacity: {md_escape(plan.capacity.describe())}. Policies: "
-        + ", ".join(f"{md_escape(p.id)} ({md_escape(p.source)}, {p.status})" for p in plan.policies)
+        + ", ".join(f"{md_escape(p.id)} ({md_escape(p.source)}, {p.flag}"
+                   + ("" if p.status == "final" else f", {p.status}") + ")" for p in plan.policies)
         + "."
     )
     lines.append("")
@@ -76,7 +77,7 @@ def plan_section(plan: Plan, chart_name: str | None = None, heading_level: int =
             d = result.deadline
             status = "met" if result.met else "**missed**"
             lines.append(
-                f"  - {d.date} {md_escape(d.policy)} {md_escape(d.kind)}: {status} "
+                f"  - {d.date} {md_escape(d.label)} {md_escape(d.kind)}: {status} "
                 f"({result.slack_days} days); source: {md_escape(d.source)}"
             )
         for reason in system.deadlines.undetermined:
@@ -103,7 +104,7 @@ def plan_section(plan: Plan, chart_name: str | None = None, heading_level: int =
         lines += [f"{h}# Organisation milestones", ""]
         for d in plan.organisation_milestones:
             lines.append(
-                f"- {d.date} {md_escape(d.policy)} {md_escape(d.kind)}: {md_escape(d.source)}"
+                f"- {d.date} {md_escape(d.label)} {md_escape(d.kind)}: {md_escape(d.source)}"
             )
         lines.append("")
     assumed = [s.candidate.id for s in plan.systems if s.effort_assumed or s.vendor_assumed]

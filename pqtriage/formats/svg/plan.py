@@ -106,7 +106,7 @@ def _row(scale: _Scale, system: SystemPlan, index: int) -> list[str]:
     missed: set[datetime.date] = set()
     for result in system.results:
         d = result.deadline
-        by_date.setdefault(d.date, []).append(f"{d.policy} {d.kind} {d.date} ({d.source})")
+        by_date.setdefault(d.date, []).append(f"{d.label} {d.kind} {d.date} ({d.source})")
         if not result.met:
             missed.add(d.date)
     for date, notes in sorted(by_date.items()):

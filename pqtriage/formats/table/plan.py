@@ -138,7 +138,7 @@ def plan_view(plan: Plan, period: Period = "year") -> RenderableType:
             f"{quarter_label(plan.origin, system.slot.start)}–"
             f"{quarter_label(plan.origin, system.slot.finish)}",
             item.start_by.isoformat() if item.start_by else "-",
-            Text.assemble(literal(str(earliest.date)), "\n", literal(f"{earliest.kind} ({earliest.policy})"))
+            Text.assemble(literal(str(earliest.date)), "\n", literal(f"{earliest.kind} ({earliest.label})"))
             if earliest
             else "-",
             "" if system.deadline_slack_days is None else str(system.deadline_slack_days),
@@ -149,7 +149,9 @@ def plan_view(plan: Plan, period: Period = "year") -> RenderableType:
         f"Migration plan from {plan.start} (made {plan.as_of}); capacity "
         f"{plan.capacity.describe()}; policies "
     )
-    header.append(literal(", ".join(p.id for p in plan.policies)))
+    header.append(literal(", ".join(
+        p.id if p.status == "final" else f"{p.id} ({p.status})" for p in plan.policies
+    )))
     legend = Text(
         f"Timeline: 1 character = 1 {unit}; █ migrating, S start-by, D earliest deadline; "
         "bold id: critical path",

@@ -10,7 +10,7 @@ from rich.text import Text
 from pqtriage.formats.labels import VERDICT_LABEL
 from pqtriage.formats.notes import CAUTIONS
 from pqtriage.formats.table.styles import VERDICT_STYLE
-from pqtriage.formats.text import MAX_CELL_CHARACTERS, cell
+from pqtriage.formats.text import MAX_CELL_CHARACTERS, cell, visible
 from pqtriage.model.verdict import TriageResult, Verdict
 
 _FLAGS_SHOWN = 10
