@@ -99,6 +99,8 @@ class Catalog:
 
             attach_oids(self._builder, identifiers)
         self._index(raw)
+        self._suggested: dict[tuple[str, int], tuple[str, ...]] = {}
+        """Suggestions already computed, per distinct unknown name (``suggest`` is memoised)."""
         self._suites = SuiteParser(raw.suite_tokens, self, raw.path)
         self._facts = CatalogFacts(
             curve=lambda name: self._curves.get(loose_key(name)),
@@ -226,9 +228,16 @@ class Catalog:
         ))
 
     def suggest(self, name: str, limit: int = 3) -> tuple[str, ...]:
-        """Up to ``limit`` known spellings close to ``name`` (difflib ratio), best first."""
-        keys = difflib.get_close_matches(loose_key(name), self._display, n=limit, cutoff=0.6)
-        return tuple(self._display[key] for key in keys)
+        """Up to ``limit`` known spellings close to ``name`` (difflib ratio), best first.
+
+        Memoised per distinct name: 100,000 uses of one misspelled name compare it with every
+        known spelling once, not 100,000 times.
+        """
+        known = self._suggested.get((name, limit))
+        if known is None:
+            keys = difflib.get_close_matches(loose_key(name), self._display, n=limit, cutoff=0.6)
+            known = self._suggested[(name, limit)] = tuple(self._display[key] for key in keys)
+        return known
 
     def specs(self) -> tuple[AlgorithmSpec, ...]:
         """Every fixed-parameter entry (RSA/DH/DSA at common sizes, ECDSA/ECDH per curve, ...)."""

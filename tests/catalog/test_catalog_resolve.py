@@ -184,3 +184,34 @@ def test_specs_and_spellings_cover_the_catalog(catalog: Catalog) -> None:
     assert {"prime256v1", "ssh-ed25519", "Kyber768", "RSA"} <= spellings
     for spec in catalog.specs():  # every fixed spec resolves back to itself by name
         assert catalog.resolve(spec.name).spec.name == spec.name
+
+
+def test_suggestions_are_computed_once_per_distinct_name(catalog: Catalog, monkeypatch: pytest.MonkeyPatch) -> None:
+    """`check` asks for the same misspelling once per use; the comparison runs once per name.
+
+    The answer is checked against Python's own difflib.get_close_matches (standard library
+    reference) over the same spellings, so memoising changes nothing but the count of calls.
+    """
+    import difflib
+
+    from pqtriage.catalog import resolve as resolve_module
+    from pqtriage.catalog.resolve import loose_key
+
+    real = difflib.get_close_matches
+    calls: list[str] = []
+
+    def counting(word, possibilities, n=3, cutoff=0.6):  # type: ignore[no-untyped-def]
+        calls.append(word)
+        return real(word, possibilities, n=n, cutoff=cutoff)
+
+    monkeypatch.setattr(resolve_module.difflib, "get_close_matches", counting)
+    answers = [catalog.suggest("ML-KEM-7689x") for _ in range(50)]
+    answers += [catalog.suggest("SHA-2567x") for _ in range(50)]
+    assert len(calls) == 2
+    assert answers[0] == answers[49] and answers[50] == answers[99]
+    display = catalog._display  # the same spellings the catalog compares with
+    expected = tuple(display[key] for key in real(loose_key("ML-KEM-7689x"), display, n=3, cutoff=0.6))
+    assert answers[0] == expected and expected  # a real, non-empty suggestion
+    for _ in range(5):
+        catalog.resolve("SHA-2567x")
+    assert len(calls) == 2  # resolve of an unknown name reuses the memoised suggestion
