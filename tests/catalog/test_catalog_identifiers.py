@@ -191,7 +191,8 @@ def test_openssl_go_and_dotnet_names_resolve() -> None:
 
 def test_go_names_are_what_the_go_standard_library_prints(ids: Identifiers, tmp_path: Path) -> None:
     go = shutil.which("go")
-    assert go, "Go is part of the machine image (and installed by .ci/run)"
+    if not go:  # CI installs golang-go and turns a skip into a failure (CI_NO_SKIPS=1)
+        pytest.skip("Go is absent (apt-get install golang-go)")
     env = {**os.environ, "GOCACHE": str(tmp_path / "cache"), "GOPATH": str(tmp_path / "gopath"),
            "GOFLAGS": "-mod=mod", "GO111MODULE": "off", "GOTOOLCHAIN": "local"}
     out = subprocess.run([go, "run", str(TOOLS / "names.go")], capture_output=True, text=True, check=True,
